@@ -1,0 +1,183 @@
+package dev.espalier.vocab;
+
+import java.util.Arrays;
+
+/**
+ * The ordinary tokens of a vocabulary as a byte trie laid out in preorder: node {@code i}'s
+ * subtree is the index range {@code [i, skip(i))}, so a walk that meets a dead byte at node
+ * {@code i} jumps straight to {@code skip(i)}. Node 0 is the root (the empty prefix). Several token
+ * ids may end at one node (tokenizers that have two ids for the same bytes).
+ *
+ * <p>Immutable. Built once per vocabulary by {@link Vocabulary#trie()}.
+ */
+public final class VocabularyTrie {
+
+    private final byte[] label;
+    private final int[] depth;
+    private final int[] skip;
+    private final int[] tokenStart;
+    private final int[] tokenIds;
+    private final int maxDepth;
+
+    private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
+        this.label = label;
+        this.depth = depth;
+        this.skip = skip;
+        this.tokenStart = tokenStart;
+        this.tokenIds = tokenIds;
+        this.maxDepth = maxDepth;
+    }
+
+    static VocabularyTrie build(byte[][] tokens, boolean[] special) {
+        int n = 0;
+        for (int id = 0; id < tokens.length; id++) {
+            if (tokens[id] != null && tokens[id].length > 0 && !special[id]) {
+                n++;
+            }
+        }
+        Integer[] order = new Integer[n];
+        int k = 0;
+        for (int id = 0; id < tokens.length; id++) {
+            if (tokens[id] != null && tokens[id].length > 0 && !special[id]) {
+                order[k++] = id;
+            }
+        }
+        Arrays.sort(order, (a, b) -> {
+            int c = Arrays.compareUnsigned(tokens[a], tokens[b]);
+            return c != 0 ? c : Integer.compare(a, b);
+        });
+
+        int cap = 1024;
+        byte[] label = new byte[cap];
+        int[] depth = new int[cap];
+        int[] skip = new int[cap];
+        int[] tokenStart = new int[cap + 1];
+        int[] tokenIds = new int[n];
+        int nodes = 1; // root
+        int maxDepth = 0;
+        // path[d] = node index at depth d on the current path; path[0] = root
+        int[] path = new int[16];
+        int pathLen = 1;
+        byte[] prev = new byte[0];
+        int t = 0;
+        for (int idx = 0; idx < n; idx++) {
+            int id = order[idx];
+            byte[] b = tokens[id];
+            int lcp = 0;
+            int lim = Math.min(prev.length, b.length);
+            while (lcp < lim && prev[lcp] == b[lcp]) {
+                lcp++;
+            }
+            // close nodes deeper than lcp
+            while (pathLen - 1 > lcp) {
+                skip[path[--pathLen]] = nodes;
+            }
+            for (int d = lcp; d < b.length; d++) {
+                if (nodes == cap) {
+                    cap *= 2;
+                    label = Arrays.copyOf(label, cap);
+                    depth = Arrays.copyOf(depth, cap);
+                    skip = Arrays.copyOf(skip, cap);
+                    tokenStart = Arrays.copyOf(tokenStart, cap + 1);
+                }
+                label[nodes] = b[d];
+                depth[nodes] = d + 1;
+                tokenStart[nodes] = t;
+                if (pathLen == path.length) {
+                    path = Arrays.copyOf(path, path.length * 2);
+                }
+                path[pathLen++] = nodes;
+                nodes++;
+            }
+            maxDepth = Math.max(maxDepth, b.length);
+            tokenIds[t++] = id;
+            prev = b;
+        }
+        while (pathLen > 1) {
+            skip[path[--pathLen]] = nodes;
+        }
+        skip[0] = nodes;
+        tokenStart[nodes] = t;
+        // A node's tokens were placed while it was the end of the path: [start(i), start(i + 1)).
+        int[] starts = Arrays.copyOf(tokenStart, nodes + 1);
+        return new VocabularyTrie(Arrays.copyOf(label, nodes), Arrays.copyOf(depth, nodes),
+                Arrays.copyOf(skip, nodes), starts, tokenIds, maxDepth);
+    }
+
+    /** Number of nodes, the root included. */
+    public int nodeCount() {
+        return label.length;
+    }
+
+    /** The byte on the edge into node {@code i} (meaningless for the root). */
+    public byte label(int i) {
+        return label[i];
+    }
+
+    /** Depth of node {@code i}: the length of its prefix (0 for the root). */
+    public int depth(int i) {
+        return depth[i];
+    }
+
+    /** Index just past node {@code i}'s subtree. */
+    public int skip(int i) {
+        return skip[i];
+    }
+
+    /** The longest token, in bytes. */
+    public int maxDepth() {
+        return maxDepth;
+    }
+
+    /** Index into {@link #tokenAt(int)} of the first token ending at node {@code i}. */
+    public int tokensFrom(int i) {
+        return tokenStart[i];
+    }
+
+    /** Index just past the last token ending at node {@code i}. */
+    public int tokensTo(int i) {
+        return tokenStart[i + 1];
+    }
+
+    /** The token id at position {@code k} of the preorder token list. */
+    public int tokenAt(int k) {
+        return tokenIds[k];
+    }
+
+    /** Number of tokens in the trie. */
+    public int tokenCount() {
+        return tokenIds.length;
+    }
+
+    /** Bytes used by the trie's arrays. */
+    public long memoryBytes() {
+        return label.length + 4L * (depth.length + skip.length + tokenStart.length + tokenIds.length);
+    }
+
+    /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */
+    public int[] idsOf(byte[] bytes) {
+        int node = 0;
+        for (byte b : bytes) {
+            int child = node + 1;
+            int end = skip[node];
+            int found = -1;
+            while (child < end) {
+                if (label[child] == b) {
+                    found = child;
+                    break;
+                }
+                child = skip[child];
+            }
+            if (found < 0) {
+                return new int[0];
+            }
+            node = found;
+        }
+        if (node == 0) {
+            return new int[0];
+        }
+        int[] ids = Arrays.copyOfRange(tokenIds, tokenStart[node], tokenStart[node + 1]);
+        Arrays.sort(ids);
+        return ids;
+    }
+}
