@@ -1,0 +1,449 @@
+package dev.espalier.automaton;
+
+import dk.brics.automaton.Automaton;
+import dk.brics.automaton.State;
+import dk.brics.automaton.Transition;
+
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.IdentityHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * A minimal deterministic automaton over bytes, in compact array form for the hot path. Every state
+ * can reach an accepting state (the automaton is trimmed), so "not dead" means "can still be
+ * completed". Bytes are grouped into equivalence classes; the transition table has one row per
+ * state and one column per class.
+ *
+ * <p>Immutable and thread-safe.
+ */
+public final class ByteDfa {
+
+    /** The dead state: returned by {@link #step(int, int)} when a byte leaves the language. */
+    public static final int DEAD = -1;
+
+    /** Default limit on states, for every automaton built without an explicit one. */
+    public static final int DEFAULT_STATE_LIMIT = 10_000;
+
+    private final int start;
+    private final byte[] classOf;
+    private final int classCount;
+    private final int[] table;
+    private final boolean[] accepting;
+    private final int[] forcedByte;
+
+    private ByteDfa(int start, byte[] classOf, int classCount, int[] table, boolean[] accepting) {
+        this.start = start;
+        this.classOf = classOf;
+        this.classCount = classCount;
+        this.table = table;
+        this.accepting = accepting;
+        int n = accepting.length;
+        this.forcedByte = new int[n];
+        for (int s = 0; s < n; s++) {
+            int only = -1;
+            int count = 0;
+            for (int b = 0; b < 256 && count < 2; b++) {
+                if (table[s * classCount + (classOf[b] & 0xFF)] != DEAD) {
+                    only = b;
+                    count++;
+                }
+            }
+            forcedByte[s] = count == 1 ? only : -1;
+        }
+    }
+
+    /**
+     * Converts a dk.brics automaton over Java chars (supplementary code points as UTF-16 surrogate
+     * pairs; deterministic or not) to a minimal byte DFA over the UTF-8 encodings of its strings.
+     * Lone surrogates have no UTF-8 encoding and are dropped.
+     *
+     * @param chars      the character automaton
+     * @param stateLimit the most states the byte DFA may have during subset construction
+     * @throws AutomatonTooLargeException when subset construction crosses {@code stateLimit}
+     */
+    public static ByteDfa fromCharAutomaton(Automaton chars, int stateLimit) {
+        ByteNfa nfa = ByteNfa.fromCharAutomaton(chars);
+        return determinize(nfa, stateLimit);
+    }
+
+    /** The start state, or {@link #DEAD} when the language is empty. */
+    public int start() {
+        return start;
+    }
+
+    /** Whether the language is empty. */
+    public boolean isEmpty() {
+        return start == DEAD;
+    }
+
+    /** The state after reading byte {@code b} (0..255) in {@code state}, or {@link #DEAD}. */
+    public int step(int state, int b) {
+        return table[state * classCount + (classOf[b & 0xFF] & 0xFF)];
+    }
+
+    /** Whether {@code state} is accepting. */
+    public boolean accepts(int state) {
+        return accepting[state];
+    }
+
+    /** The only byte that leaves {@code state} alive, or -1 when there are none or several. */
+    public int forcedByte(int state) {
+        return forcedByte[state];
+    }
+
+    /** Number of states. */
+    public int stateCount() {
+        return accepting.length;
+    }
+
+    /** Number of byte equivalence classes. */
+    public int classCount() {
+        return classCount;
+    }
+
+    /** Bytes used by the tables. */
+    public long memoryBytes() {
+        return 256 + 4L * table.length + accepting.length + 4L * forcedByte.length;
+    }
+
+    /** The state after reading all of {@code bytes} from {@code state}, or {@link #DEAD}. */
+    public int run(int state, byte[] bytes) {
+        int s = state;
+        for (int i = 0; i < bytes.length && s != DEAD; i++) {
+            s = step(s, bytes[i]);
+        }
+        return s;
+    }
+
+    /** Whether {@code bytes} is in the language. */
+    public boolean matches(byte[] bytes) {
+        if (start == DEAD) {
+            return false;
+        }
+        int s = run(start, bytes);
+        return s != DEAD && accepting[s];
+    }
+
+    /** The bytes that leave {@code state} alive, ascending. */
+    public int[] liveBytes(int state) {
+        int[] out = new int[256];
+        int n = 0;
+        for (int b = 0; b < 256; b++) {
+            if (step(state, b) != DEAD) {
+                out[n++] = b;
+            }
+        }
+        return Arrays.copyOf(out, n);
+    }
+
+    // ---------------------------------------------------------------------------------------------
+
+    /** A byte NFA without epsilon moves: transitions (lo, hi, target) per node. */
+    static final class ByteNfa {
+        final List<int[]> edges = new ArrayList<>(); // per node: flattened lo,hi,to triples
+        final List<Integer> edgeCounts = new ArrayList<>();
+        boolean[] accept = new boolean[16];
+        int start;
+
+        int newNode() {
+            edges.add(new int[6]);
+            edgeCounts.add(0);
+            int id = edges.size() - 1;
+            if (id >= accept.length) {
+                accept = Arrays.copyOf(accept, accept.length * 2);
+            }
+            return id;
+        }
+
+        int size() {
+            return edges.size();
+        }
+
+        void addEdge(int from, int lo, int hi, int to) {
+            int[] e = edges.get(from);
+            int c = edgeCounts.get(from);
+            if (3 * c + 3 > e.length) {
+                e = Arrays.copyOf(e, e.length * 2);
+                edges.set(from, e);
+            }
+            e[3 * c] = lo;
+            e[3 * c + 1] = hi;
+            e[3 * c + 2] = to;
+            edgeCounts.set(from, c + 1);
+        }
+
+        /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
+        void addCodePoints(int from, int lo, int hi, int to) {
+            for (Utf8.ByteRanges r : Utf8.ranges(lo, hi)) {
+                int cur = from;
+                for (int i = 0; i < r.length(); i++) {
+                    int next = i == r.length() - 1 ? to : newNode();
+                    addEdge(cur, r.lo()[i], r.hi()[i], next);
+                    cur = next;
+                }
+            }
+        }
+
+        static ByteNfa fromCharAutomaton(Automaton a) {
+            ByteNfa nfa = new ByteNfa();
+            Map<State, Integer> ids = new IdentityHashMap<>();
+            List<State> states = new ArrayList<>(a.getStates());
+            // the initial state first, so node 0 is the start
+            states.remove(a.getInitialState());
+            states.add(0, a.getInitialState());
+            for (State s : states) {
+                int id = nfa.newNode();
+                ids.put(s, id);
+            }
+            for (State s : states) {
+                nfa.accept[ids.get(s)] = s.isAccept();
+            }
+            for (State s : states) {
+                int from = ids.get(s);
+                for (Transition t : s.getTransitions()) {
+                    int min = t.getMin();
+                    int max = t.getMax();
+                    int to = ids.get(t.getDest());
+                    // BMP scalar values (surrogates are skipped by Utf8.ranges)
+                    nfa.addCodePoints(from, min, max, to);
+                    // high surrogate followed by low surrogate: supplementary code points
+                    int h1 = Math.max(min, 0xD800);
+                    int h2 = Math.min(max, 0xDBFF);
+                    if (h1 <= h2) {
+                        for (Transition u : t.getDest().getTransitions()) {
+                            int l1 = Math.max(u.getMin(), 0xDC00);
+                            int l2 = Math.min(u.getMax(), 0xDFFF);
+                            if (l1 > l2) {
+                                continue;
+                            }
+                            int dest = ids.get(u.getDest());
+                            if (l1 == 0xDC00 && l2 == 0xDFFF) {
+                                nfa.addCodePoints(from, supplementary(h1, l1), supplementary(h2, l2), dest);
+                            } else {
+                                for (int h = h1; h <= h2; h++) {
+                                    nfa.addCodePoints(from, supplementary(h, l1), supplementary(h, l2), dest);
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+            nfa.start = 0;
+            return nfa;
+        }
+
+        private static int supplementary(int high, int low) {
+            return 0x10000 + ((high - 0xD800) << 10) + (low - 0xDC00);
+        }
+    }
+
+    /** Subset construction with a state limit, then trimming and Hopcroft minimisation (via brics). */
+    static ByteDfa determinize(ByteNfa nfa, int stateLimit) {
+        Map<IntSet, Integer> index = new HashMap<>();
+        List<int[]> sets = new ArrayList<>();
+        List<int[]> rows = new ArrayList<>();
+        int[] startSet = {nfa.start};
+        index.put(new IntSet(startSet), 0);
+        sets.add(startSet);
+        ArrayDeque<Integer> work = new ArrayDeque<>();
+        work.add(0);
+        int[][] buckets = new int[256][];
+        int[] bucketSize = new int[256];
+        while (!work.isEmpty()) {
+            int d = work.poll();
+            int[] members = sets.get(d);
+            Arrays.fill(bucketSize, 0);
+            for (int node : members) {
+                int[] e = nfa.edges.get(node);
+                int c = nfa.edgeCounts.get(node);
+                for (int k = 0; k < c; k++) {
+                    int lo = e[3 * k];
+                    int hi = e[3 * k + 1];
+                    int to = e[3 * k + 2];
+                    for (int b = lo; b <= hi; b++) {
+                        if (buckets[b] == null) {
+                            buckets[b] = new int[4];
+                        } else if (bucketSize[b] == buckets[b].length) {
+                            buckets[b] = Arrays.copyOf(buckets[b], bucketSize[b] * 2);
+                        }
+                        buckets[b][bucketSize[b]++] = to;
+                    }
+                }
+            }
+            int[] row = new int[256];
+            Arrays.fill(row, DEAD);
+            for (int b = 0; b < 256; b++) {
+                if (bucketSize[b] == 0) {
+                    continue;
+                }
+                int[] target = Arrays.copyOf(buckets[b], bucketSize[b]);
+                Arrays.sort(target);
+                int m = 0;
+                for (int i = 0; i < target.length; i++) {
+                    if (i == 0 || target[i] != target[i - 1]) {
+                        target[m++] = target[i];
+                    }
+                }
+                IntSet key = new IntSet(Arrays.copyOf(target, m));
+                Integer id = index.get(key);
+                if (id == null) {
+                    id = sets.size();
+                    if (id >= stateLimit) {
+                        throw new AutomatonTooLargeException(stateLimit,
+                                "the byte automaton exceeds its limit of " + stateLimit + " states");
+                    }
+                    index.put(key, id);
+                    sets.add(key.values);
+                    work.add(id);
+                }
+                row[b] = id;
+            }
+            while (rows.size() <= d) {
+                rows.add(null);
+            }
+            rows.set(d, row);
+        }
+        int n = sets.size();
+        boolean[] accept = new boolean[n];
+        for (int d = 0; d < n; d++) {
+            for (int node : sets.get(d)) {
+                if (nfa.accept[node]) {
+                    accept[d] = true;
+                    break;
+                }
+            }
+        }
+        return minimize(rows, accept);
+    }
+
+    private static ByteDfa minimize(List<int[]> rows, boolean[] accept) {
+        int n = accept.length;
+        State[] st = new State[n];
+        for (int i = 0; i < n; i++) {
+            st[i] = new State();
+            st[i].setAccept(accept[i]);
+        }
+        for (int i = 0; i < n; i++) {
+            int[] row = rows.get(i);
+            int b = 0;
+            while (b < 256) {
+                int to = row[b];
+                int e = b;
+                while (e + 1 < 256 && row[e + 1] == to) {
+                    e++;
+                }
+                if (to != DEAD) {
+                    st[i].addTransition(new Transition((char) b, (char) e, st[to]));
+                }
+                b = e + 1;
+            }
+        }
+        Automaton a = new Automaton();
+        a.setInitialState(st[0]);
+        a.setDeterministic(true);
+        a.minimize();
+        return fromDeterministic(a);
+    }
+
+    /** Reads a deterministic brics automaton over chars 0..255 back into array form, trimmed. */
+    private static ByteDfa fromDeterministic(Automaton a) {
+        List<State> states = new ArrayList<>(a.getStates());
+        states.remove(a.getInitialState());
+        states.add(0, a.getInitialState());
+        Map<State, Integer> ids = new IdentityHashMap<>();
+        for (State s : states) {
+            ids.put(s, ids.size());
+        }
+        int n = states.size();
+        int[][] full = new int[n][256];
+        boolean[] acc = new boolean[n];
+        for (int i = 0; i < n; i++) {
+            Arrays.fill(full[i], DEAD);
+            State s = states.get(i);
+            acc[i] = s.isAccept();
+            for (Transition t : s.getTransitions()) {
+                int to = ids.get(t.getDest());
+                for (int b = t.getMin(); b <= t.getMax() && b < 256; b++) {
+                    full[i][b] = to;
+                }
+            }
+        }
+        // trim: keep states that can reach an accepting state
+        boolean[] live = acc.clone();
+        boolean changed = true;
+        while (changed) {
+            changed = false;
+            for (int i = 0; i < n; i++) {
+                if (live[i]) {
+                    continue;
+                }
+                for (int b = 0; b < 256; b++) {
+                    int to = full[i][b];
+                    if (to != DEAD && live[to]) {
+                        live[i] = true;
+                        changed = true;
+                        break;
+                    }
+                }
+            }
+        }
+        if (!live[0]) {
+            return new ByteDfa(DEAD, new byte[256], 1, new int[0], new boolean[0]);
+        }
+        int[] renum = new int[n];
+        int m = 0;
+        for (int i = 0; i < n; i++) {
+            renum[i] = live[i] ? m++ : DEAD;
+        }
+        int[][] rows = new int[m][];
+        boolean[] accepting = new boolean[m];
+        for (int i = 0; i < n; i++) {
+            if (!live[i]) {
+                continue;
+            }
+            int[] row = new int[256];
+            for (int b = 0; b < 256; b++) {
+                int to = full[i][b];
+                row[b] = to == DEAD ? DEAD : renum[to];
+            }
+            rows[renum[i]] = row;
+            accepting[renum[i]] = acc[i];
+        }
+        // byte equivalence classes: bytes with identical columns
+        byte[] classOf = new byte[256];
+        Map<IntSet, Integer> columns = new HashMap<>();
+        for (int b = 0; b < 256; b++) {
+            int[] col = new int[m];
+            for (int s = 0; s < m; s++) {
+                col[s] = rows[s][b];
+            }
+            Integer c = columns.computeIfAbsent(new IntSet(col), k -> columns.size());
+            classOf[b] = (byte) (int) c;
+        }
+        int classes = columns.size();
+        int[] table = new int[m * classes];
+        for (int s = 0; s < m; s++) {
+            for (int b = 0; b < 256; b++) {
+                table[s * classes + (classOf[b] & 0xFF)] = rows[s][b];
+            }
+        }
+        return new ByteDfa(0, classOf, classes, table, accepting);
+    }
+
+    /** An int array with value equality, for hashing state sets and columns. */
+    private record IntSet(int[] values) {
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof IntSet s && Arrays.equals(values, s.values);
+        }
+
+        @Override
+        public int hashCode() {
+            return Arrays.hashCode(values);
+        }
+    }
+}
