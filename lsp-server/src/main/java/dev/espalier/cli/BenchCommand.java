@@ -1,0 +1,224 @@
+package dev.espalier.cli;
+
+import dev.espalier.mask.Constraint;
+import dev.espalier.mask.Cursor;
+import dev.espalier.mask.MaskedSampler;
+import dev.espalier.vocab.Vocabulary;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintWriter;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Random;
+import java.util.concurrent.Callable;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+
+/**
+ * {@code espalier bench}: mask timings along real constrained generations, side by side with the
+ * baseline a Java developer would write without Espalier (java.util.regex on prefix + token).
+ */
+@Command(name = "bench", mixinStandardHelpOptions = true,
+        description = "Measure compile time, first mask of a new state, steady-state mask (median, p99) and cache "
+                + "memory for patterns × vocabularies, beside a java.util.regex baseline that tests every token.")
+final class BenchCommand implements Callable<Integer> {
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Option(names = "--regex", paramLabel = "PATTERN", description = "A pattern to measure (repeatable; default: the built-in set).")
+    List<String> patterns;
+
+    @Option(names = "--vocab", paramLabel = "NAME|PATH",
+            description = "A vocabulary (repeatable; default: cl100k, o200k and Qwen3 when ../shared/vocab has it).")
+    List<String> vocabs;
+
+    @Option(names = "--generations", paramLabel = "N", defaultValue = "4",
+            description = "Constrained generations whose states are measured. Default: ${DEFAULT-VALUE}.")
+    int generations;
+
+    @Option(names = "--rounds", paramLabel = "N", defaultValue = "200",
+            description = "Steady-state rounds over the states. Default: ${DEFAULT-VALUE}.")
+    int rounds;
+
+    @Option(names = "--baseline-masks", paramLabel = "N", defaultValue = "3",
+            description = "Masks computed with the baseline per row. Default: ${DEFAULT-VALUE}.")
+    int baselineMasks;
+
+    @Option(names = "--seed", paramLabel = "S", defaultValue = "1", description = "Random seed. Default: ${DEFAULT-VALUE}.")
+    long seed;
+
+    /** The built-in pattern set, by label. Each is valid in both our syntax and java.util.regex. */
+    static Map<String, String> defaultPatterns() {
+        Map<String, String> m = new LinkedHashMap<>();
+        m.put("date", "[0-9]{4}-(0[1-9]|1[0-2])-(0[1-9]|[12][0-9]|3[01])");
+        m.put("rfc3339", "[0-9]{4}-(0[1-9]|1[0-2])-(0[1-9]|[12][0-9]|3[01])[Tt]([01][0-9]|2[0-3]):[0-5][0-9]:"
+                + "([0-5][0-9]|60)(\\.[0-9]+)?([Zz]|[+-]([01][0-9]|2[0-3]):[0-5][0-9])");
+        m.put("email", "[a-z0-9._%+-]{1,64}@([a-z0-9-]{1,63}\\.){1,4}[a-z]{2,12}");
+        m.put("uuid", "[0-9a-f]{8}-[0-9a-f]{4}-[1-5][0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}");
+        m.put("phone", "\\+[1-9][0-9]{0,2} [0-9]{2,4} [0-9]{3,4} [0-9]{3,4}");
+        m.put("varieties200", "(" + String.join("|", Orchard.varieties()) + ")");
+        m.put("words200", "[a-z ]{0,200}");
+        return m;
+    }
+
+    @Override
+    public Integer call() {
+        PrintWriter out = spec.commandLine().getOut();
+        Map<String, String> pats = new LinkedHashMap<>();
+        if (patterns == null || patterns.isEmpty()) {
+            pats.putAll(defaultPatterns());
+        } else {
+            for (int i = 0; i < patterns.size(); i++) {
+                pats.put("p" + (i + 1), patterns.get(i));
+            }
+        }
+        List<String> vs = vocabs;
+        if (vs == null || vs.isEmpty()) {
+            vs = new ArrayList<>(List.of("cl100k", "o200k"));
+            Path qwen = Path.of("..", "shared", "vocab", "qwen3-tokenizer.json.gz");
+            if (Files.isRegularFile(qwen)) {
+                vs.add(qwen.toString());
+            }
+        }
+        out.printf("%-13s %-26s %7s %9s %12s %12s %9s %9s %9s %12s %9s%n", "pattern", "vocabulary", "states",
+                "compile", "first-med", "first-max", "steady", "p99", "cache", "baseline", "ratio");
+        out.printf("%-13s %-26s %7s %9s %12s %12s %9s %9s %9s %12s %9s%n", "", "", "", "ms", "µs", "µs", "µs",
+                "µs", "KiB", "ms/mask", "×");
+        for (String vn : vs) {
+            long t0 = System.nanoTime();
+            Vocabulary v = VocabOptions.load(vn, null);
+            long t1 = System.nanoTime();
+            v.trie();
+            long t2 = System.nanoTime();
+            Progress.note(String.format("%s: %d tokens, loaded in %.0f ms, trie of %d nodes built in %.0f ms",
+                    v.name(), v.tokenCount(), (t1 - t0) / 1e6, v.trie().nodeCount(), (t2 - t1) / 1e6));
+            for (Map.Entry<String, String> p : pats.entrySet()) {
+                out.println(row(p.getKey(), p.getValue(), v));
+                out.flush();
+            }
+        }
+        return 0;
+    }
+
+    private String row(String label, String pattern, Vocabulary v) {
+        // compile: median of 5
+        double[] compile = new double[5];
+        Constraint c = null;
+        for (int i = 0; i < compile.length; i++) {
+            long a = System.nanoTime();
+            c = Constraint.regex(pattern, v);
+            compile[i] = (System.nanoTime() - a) / 1e6;
+        }
+        String states = c.describe().replaceAll("^byte DFA, (\\d+) states.*$", "$1");
+        // the states met along real constrained generations
+        Random rnd = new Random(seed);
+        List<Cursor> cursors = new ArrayList<>();
+        List<String> prefixes = new ArrayList<>();
+        for (int g = 0; g < generations; g++) {
+            MaskedSampler.Sample s = MaskedSampler.sample(c, rnd, 256);
+            Cursor cur = c.start();
+            ByteArrayOutputStream text = new ByteArrayOutputStream();
+            for (int id : s.tokens()) {
+                cursors.add(cur.fork());
+                prefixes.add(text.toString(StandardCharsets.UTF_8));
+                if (id == v.endOfSequence()) {
+                    break;
+                }
+                cur.feed(id);
+                text.writeBytes(v.bytes(id));
+            }
+        }
+        // first mask of each new state, on a fresh constraint
+        Constraint fresh = Constraint.regex(pattern, v);
+        long[] mask = new long[v.maskWords()];
+        List<Double> first = new ArrayList<>();
+        List<Cursor> freshCursors = new ArrayList<>();
+        for (int g = 0; g < cursors.size(); g++) {
+            Cursor f = fresh.start();
+            f.feedText(prefixes.get(g));
+            freshCursors.add(f);
+        }
+        for (Cursor f : freshCursors) {
+            int before = fresh.cachedMasks();
+            long a = System.nanoTime();
+            f.fillMask(mask);
+            long b = System.nanoTime();
+            if (fresh.cachedMasks() > before) {
+                first.add((b - a) / 1e3);
+            }
+        }
+        // steady state: cached masks along the same generations
+        for (int warm = 0; warm < 20; warm++) {
+            for (Cursor f : freshCursors) {
+                f.fillMask(mask);
+            }
+        }
+        double[] steady = new double[rounds * freshCursors.size()];
+        int k = 0;
+        for (int r = 0; r < rounds; r++) {
+            for (Cursor f : freshCursors) {
+                long a = System.nanoTime();
+                f.fillMask(mask);
+                steady[k++] = (System.nanoTime() - a) / 1e3;
+            }
+        }
+        // baseline: java.util.regex on prefix + token for every token
+        Pattern jp = Pattern.compile(pattern);
+        double[] base = new double[Math.min(baselineMasks, prefixes.size())];
+        for (int i = 0; i < base.length; i++) {
+            String prefix = prefixes.get(i * prefixes.size() / base.length);
+            long a = System.nanoTime();
+            baselineMask(jp, prefix, v, mask);
+            base[i] = (System.nanoTime() - a) / 1e6;
+        }
+        double steadyMed = percentile(steady, 50);
+        double baseMed = percentile(base, 50);
+        double[] firstArr = first.stream().mapToDouble(Double::doubleValue).toArray();
+        return String.format("%-13s %-26s %7s %9.2f %12.1f %12.1f %9.2f %9.2f %9d %12.1f %9.0f", label,
+                shorten(v.name()), states, percentile(compile, 50), percentile(firstArr, 50), max(firstArr),
+                steadyMed, percentile(steady, 99), fresh.cacheBytes() / 1024, baseMed, baseMed * 1000 / steadyMed);
+    }
+
+    /** What one would write without Espalier: test every token with the JDK's regex engine. */
+    static void baselineMask(Pattern p, String prefix, Vocabulary v, long[] mask) {
+        Arrays.fill(mask, 0L);
+        Matcher m = p.matcher("");
+        for (int id = 0; id < v.size(); id++) {
+            if (!v.has(id) || v.isSpecial(id)) {
+                continue;
+            }
+            m.reset(prefix + new String(v.bytes(id), StandardCharsets.UTF_8));
+            if (m.matches() || m.hitEnd()) {
+                mask[id >>> 6] |= 1L << id;
+            }
+        }
+    }
+
+    private static String shorten(String name) {
+        return name.length() <= 26 ? name : name.substring(name.length() - 26);
+    }
+
+    static double percentile(double[] xs, double p) {
+        if (xs.length == 0) {
+            return Double.NaN;
+        }
+        double[] s = xs.clone();
+        Arrays.sort(s);
+        int i = (int) Math.ceil(p / 100.0 * s.length) - 1;
+        return s[Math.max(0, Math.min(s.length - 1, i))];
+    }
+
+    private static double max(double[] xs) {
+        return xs.length == 0 ? Double.NaN : Arrays.stream(xs).max().getAsDouble();
+    }
+}
