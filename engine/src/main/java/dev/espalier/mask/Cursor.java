@@ -42,6 +42,9 @@ public interface Cursor {
      */
     void feedBytes(byte[] bytes);
 
+    /** Appends raw bytes as one step if they keep the text completable; returns whether they did. */
+    boolean tryFeedBytes(byte[] bytes);
+
     /** Appends the UTF-8 bytes of {@code text} as one step. */
     void feedText(String text);
 

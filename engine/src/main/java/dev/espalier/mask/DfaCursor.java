@@ -112,6 +112,19 @@ final class DfaCursor implements Cursor {
     }
 
     @Override
+    public boolean tryFeedBytes(byte[] bytes) {
+        if (state == FINISHED) {
+            return false;
+        }
+        int s = c.dfa.run(state, bytes);
+        if (s == ByteDfa.DEAD) {
+            return false;
+        }
+        push(s);
+        return true;
+    }
+
+    @Override
     public void feedText(String text) {
         feedBytes(text.getBytes(StandardCharsets.UTF_8));
     }

@@ -1,0 +1,37 @@
+package dev.espalier.testing;
+
+import dev.espalier.vocab.Vocabularies;
+import dev.espalier.vocab.Vocabulary;
+import org.junit.jupiter.api.Assumptions;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.concurrent.ConcurrentHashMap;
+
+/** Real vocabularies for tests, loaded once per test JVM. */
+public final class TestVocabularies {
+
+    private static final ConcurrentHashMap<String, Vocabulary> CACHE = new ConcurrentHashMap<>();
+
+    private TestVocabularies() {
+    }
+
+    /** A built-in (jtokkit resource) vocabulary: r50k, p50k, cl100k, o200k. */
+    public static Vocabulary builtin(String name) {
+        return CACHE.computeIfAbsent(name, Vocabularies::builtin);
+    }
+
+    /** The shared/ folder beside the checkout, or a skipped test when it is absent. */
+    public static Path shared() {
+        String p = System.getProperty("espalier.shared");
+        Assumptions.assumeTrue(p != null && Files.isDirectory(Path.of(p)), "shared/ folder not available");
+        return Path.of(p);
+    }
+
+    /** A vocabulary file of shared/vocab (e.g. {@code qwen3}), or a skipped test when absent. */
+    public static Vocabulary shared(String model) {
+        Path f = shared().resolve("vocab").resolve(model + "-tokenizer.json.gz");
+        Assumptions.assumeTrue(Files.isRegularFile(f), f + " not available");
+        return CACHE.computeIfAbsent("shared:" + model, k -> Vocabularies.load(f));
+    }
+}
