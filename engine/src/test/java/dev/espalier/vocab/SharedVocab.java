@@ -17,6 +17,8 @@ final class SharedVocab {
 
     private static final ConcurrentHashMap<String, Vocabulary> LOADED = new ConcurrentHashMap<>();
 
+    private static final ConcurrentHashMap<String, JsonNode> TREES = new ConcurrentHashMap<>();
+
     private SharedVocab() {
     }
 
@@ -37,6 +39,15 @@ final class SharedVocab {
 
     /** Reads a shared JSON file (gzip or plain) with Jackson's tree API: the independent reference. */
     static JsonNode json(String file) throws IOException {
+        JsonNode cached = TREES.get(file);
+        if (cached == null) {
+            cached = readJson(file);
+            TREES.put(file, cached);
+        }
+        return cached;
+    }
+
+    private static JsonNode readJson(String file) throws IOException {
         Path p = file(file);
         try (InputStream raw = Files.newInputStream(p);
              InputStream in = file.endsWith(".gz") ? new GZIPInputStream(raw) : raw) {
