@@ -109,7 +109,8 @@ public final class Vocabularies {
      * @param name          the file name for messages and {@link Vocabulary#name()}
      * @param configOrNull  a {@code tokenizer_config.json} whose {@code eos_token} (a string, or an
      *                      object with {@code content}) names the end-of-sequence token; or
-     *                      {@code null} for a vocabulary without one
+     *                      {@code null} for a vocabulary without one; read to its end, not closed.
+     *                      Messages about it call it {@code tokenizer_config.json}
      * @return the vocabulary
      * @throws VocabularyFormatException if either file is malformed, or the end-of-sequence token is
      *                                   not in the vocabulary

@@ -222,6 +222,14 @@ class MalformedVocabularyTest {
     }
 
     @Test
+    void deepNestingIsAnErrorNotAStackOverflow() throws IOException {
+        String deep = "[".repeat(100_000) + "]".repeat(100_000);
+        var e = failsToLoad("t.json", "{\"decoder\":" + deep + ",\"model\":{\"vocab\":{\"apple\":0}}}");
+        assertEquals("t.json", e.source());
+        assertTrue(e.location().startsWith("$.decoder"), e.getMessage());
+    }
+
+    @Test
     void truncatedGzip() throws IOException {
         byte[] whole = gzip(("{\"model\":{\"vocab\":{\"pear\":1}}, \"pad\":\""
                 + "orchard ".repeat(2000) + "\"}").getBytes(StandardCharsets.UTF_8));
