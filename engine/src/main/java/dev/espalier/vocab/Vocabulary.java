@@ -70,6 +70,11 @@ public final class Vocabulary {
         return new Vocabulary(name, tokens, sp, id);
     }
 
+    /** The same vocabulary under another name (shares the token arrays). */
+    Vocabulary renamed(String newName) {
+        return new Vocabulary(Objects.requireNonNull(newName), tokens, special, endOfSequence);
+    }
+
     /** A name for messages. */
     public String name() {
         return name;
