@@ -24,14 +24,29 @@ public final class TestVocabularies {
     /** The shared/ folder beside the checkout, or a skipped test when it is absent. */
     public static Path shared() {
         String p = System.getProperty("espalier.shared");
-        Assumptions.assumeTrue(p != null && Files.isDirectory(Path.of(p)), "shared/ folder not available");
-        return Path.of(p);
+        if (p != null && Files.isDirectory(Path.of(p))) {
+            return Path.of(p);
+        }
+        // a checkout elsewhere (e.g. a git worktree): look for shared/ beside any parent folder
+        for (Path dir = Path.of("").toAbsolutePath(); dir != null; dir = dir.getParent()) {
+            Path candidate = dir.resolveSibling("shared");
+            if (dir.getParent() != null && Files.isDirectory(candidate.resolve("vocab"))) {
+                return candidate;
+            }
+        }
+        Assumptions.abort("shared/ folder not available (system property espalier.shared)");
+        return null;
+    }
+
+    /** A vocabulary file of shared/vocab by file name, loaded once; a skipped test when absent. */
+    public static Vocabulary sharedFile(String file) {
+        Path f = shared().resolve("vocab").resolve(file);
+        Assumptions.assumeTrue(Files.isRegularFile(f), f + " not available");
+        return CACHE.computeIfAbsent("shared:" + file, k -> Vocabularies.load(f));
     }
 
     /** A vocabulary file of shared/vocab (e.g. {@code qwen3}), or a skipped test when absent. */
     public static Vocabulary shared(String model) {
-        Path f = shared().resolve("vocab").resolve(model + "-tokenizer.json.gz");
-        Assumptions.assumeTrue(Files.isRegularFile(f), f + " not available");
-        return CACHE.computeIfAbsent("shared:" + model, k -> Vocabularies.load(f));
+        return sharedFile(model + "-tokenizer.json.gz");
     }
 }

@@ -15,8 +15,6 @@ import java.util.zip.GZIPInputStream;
 /** Access to the real vocabularies in the shared folder (property {@code espalier.shared}). */
 final class SharedVocab {
 
-    private static final ConcurrentHashMap<String, Vocabulary> LOADED = new ConcurrentHashMap<>();
-
     private static final ConcurrentHashMap<String, JsonNode> TREES = new ConcurrentHashMap<>();
 
     private SharedVocab() {
@@ -24,17 +22,14 @@ final class SharedVocab {
 
     /** The file {@code vocab/<file>} of the shared folder; skips the test when it is missing. */
     static Path file(String file) {
-        String shared = System.getProperty("espalier.shared");
-        assumeTrue(shared != null && !shared.isBlank(), "property espalier.shared is not set");
-        Path p = Path.of(shared, "vocab", file);
+        Path p = dev.espalier.testing.TestVocabularies.shared().resolve("vocab").resolve(file);
         assumeTrue(Files.isRegularFile(p), p + " is missing");
         return p;
     }
 
     /** Loads (once per test run) a shared vocabulary through {@link Vocabularies#load(Path)}. */
     static Vocabulary load(String file) {
-        Path p = file(file);
-        return LOADED.computeIfAbsent(file, f -> Vocabularies.load(p));
+        return dev.espalier.testing.TestVocabularies.sharedFile(file);
     }
 
     /** Reads a shared JSON file (gzip or plain) with Jackson's tree API: the independent reference. */
