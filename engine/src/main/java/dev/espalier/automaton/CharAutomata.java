@@ -164,13 +164,35 @@ public final class CharAutomata {
 
     private Automaton combine(Expr expr, List<Automaton> args) {
         if (expr instanceof Expr.Seq) {
-            return args.size() == 1 ? args.get(0) : settle(guarded(args, true));
+            return args.size() == 1 ? args.get(0) : fold(args, true);
         }
         if (expr instanceof Expr.Choice) {
-            return args.size() == 1 ? args.get(0) : settle(guarded(args, false));
+            return args.size() == 1 ? args.get(0) : fold(args, false);
         }
         Expr.Repeat r = (Expr.Repeat) expr;
         return repeat(args.get(0), r.min(), r.max());
+    }
+
+    /**
+     * Concatenation or union of many deterministic automata, in batches whose combined size stays
+     * within the nondeterministic limit: each batch is determinised and minimised and its result
+     * starts the next batch, so a long sequence or a large alternation never needs one huge NFA.
+     */
+    private Automaton fold(List<Automaton> parts, boolean concatenate) {
+        List<Automaton> batch = new ArrayList<>();
+        long size = 0;
+        for (Automaton part : parts) {
+            int n = part.getNumberOfStates();
+            if (!batch.isEmpty() && size + n > nfaLimit) {
+                Automaton done = settle(guarded(batch, concatenate));
+                batch = new ArrayList<>();
+                batch.add(done);
+                size = done.getNumberOfStates();
+            }
+            batch.add(part);
+            size += n;
+        }
+        return batch.size() == 1 ? batch.get(0) : settle(guarded(batch, concatenate));
     }
 
     /** Concatenation or union of deterministic automata, refusing oversized inputs first. */

@@ -72,6 +72,7 @@ public final class RegexSyntax {
         List<Expr> items = new ArrayList<>();
         int optionStart;
         boolean lastRepeatable;
+        int lastStart;
 
         Frame(int open, int contentStart) {
             this.open = open;
@@ -123,9 +124,11 @@ public final class RegexSyntax {
                     }
                     cur.options.add(finishOption(cur, pos));
                     pos++;
-                    Expr group = finishGroup(cur, Span.at(cur.open, pos - cur.open));
+                    int open = cur.open;
+                    Expr group = finishGroup(cur, Span.at(open, pos - open));
                     cur = stack.pop();
                     add(cur, group, true);
+                    cur.lastStart = open;
                 }
                 case '*', '+', '?' -> {
                     int start = pos;
@@ -186,6 +189,7 @@ public final class RegexSyntax {
     private static void add(Frame f, Expr e, boolean repeatable) {
         f.items.add(e);
         f.lastRepeatable = repeatable;
+        f.lastStart = e.span().start();
     }
 
     private static Expr atomExpr(Atom a, Span span) {
@@ -209,7 +213,7 @@ public final class RegexSyntax {
             throw new RegexSyntaxException("nothing to repeat before " + p.substring(start, pos), start, pos - start);
         }
         Expr body = f.items.remove(f.items.size() - 1);
-        int from = body.span().start();
+        int from = f.lastStart; // a group's body may start after its parenthesis
         f.items.add(new Expr.Repeat(body, min, max, Span.at(from, pos - from)));
         f.lastRepeatable = false;
     }
