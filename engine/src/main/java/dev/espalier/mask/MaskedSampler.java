@@ -31,6 +31,15 @@ public final class MaskedSampler {
      * @param maxTokens  stop after this many tokens even if the output is incomplete
      */
     public static Sample sample(Constraint constraint, Random random, int maxTokens) {
+        return sample(constraint, random, maxTokens, 0.0);
+    }
+
+    /**
+     * Samples one output, choosing end of sequence with probability {@code endChance} whenever it is
+     * allowed (and otherwise uniformly among all allowed tokens, end of sequence included), so that
+     * outputs of infinite languages finish.
+     */
+    public static Sample sample(Constraint constraint, Random random, int maxTokens, double endChance) {
         Cursor cursor = constraint.start();
         long[] mask = new long[constraint.vocabulary().maskWords()];
         ByteArrayOutputStream out = new ByteArrayOutputStream();
@@ -43,7 +52,8 @@ public final class MaskedSampler {
             if (count == 0) {
                 break;
             }
-            int pick = nth(mask, random.nextInt(count));
+            int pick = eos >= 0 && endChance > 0 && TokenBits.get(mask, eos) && random.nextDouble() < endChance
+                    ? eos : nth(mask, random.nextInt(count));
             if (n == tokens.length) {
                 tokens = java.util.Arrays.copyOf(tokens, tokens.length * 2);
             }

@@ -183,7 +183,7 @@ class RegexMaskDifferentialTest {
             }
             // the code points whose encoding starts with the tail form one interval
             int[] range = completions(Arrays.copyOfRange(bytes, bytes.length - tail, bytes.length));
-            String key = s + "\u0000" + range[0];
+            String key = s + "\u0000" + range[0] + "-" + range[1];
             Boolean known = memo.get(key);
             if (known != null) {
                 return known;
