@@ -35,8 +35,9 @@ import java.util.function.Function;
  * concatenation, union or repetition of deterministic ones) at most {@value #NFA_FACTOR} times
  * that. Crossing either raises {@link AutomatonTooLargeException} before the oversized structure is
  * built, so an exponential blow-up such as {@code (a|b)*a(a|b){25}} fails fast in bounded memory.
- * Counted repetition {@code {m,n}} is built by repeated squaring, so large bounds cost a logarithmic
- * number of steps and no recursion; the whole compiler works with an explicit stack.
+ * Counted repetition {@code {m,n}} is built as one chain of copies when that chain fits the
+ * nondeterministic limit, and otherwise by repeated squaring (a logarithmic number of bounded
+ * steps); the whole compiler works with an explicit stack, never recursion.
  */
 public final class CharAutomata {
 
@@ -182,6 +183,16 @@ public final class CharAutomata {
         List<Automaton> batch = new ArrayList<>();
         long size = 0;
         for (Automaton part : parts) {
+            // Parts are minimal, so these checks are exact and cheap.
+            if (part.isEmpty()) {
+                if (concatenate) {
+                    return Automaton.makeEmpty();
+                }
+                continue;
+            }
+            if (concatenate && part.isEmptyString()) {
+                continue;
+            }
             int n = part.getNumberOfStates();
             if (!batch.isEmpty() && size + n > nfaLimit) {
                 Automaton done = settle(guarded(batch, concatenate));
@@ -191,6 +202,9 @@ public final class CharAutomata {
             }
             batch.add(part);
             size += n;
+        }
+        if (batch.isEmpty()) {
+            return concatenate ? Automaton.makeEmptyString() : Automaton.makeEmpty();
         }
         return batch.size() == 1 ? batch.get(0) : settle(guarded(batch, concatenate));
     }
@@ -214,6 +228,14 @@ public final class CharAutomata {
         if (max == 0 || body.isEmptyString()) {
             return Automaton.makeEmptyString();
         }
+        long k = body.getNumberOfStates();
+        long chain = k * (max == Expr.UNBOUNDED ? min + 1L : max) + 1;
+        if (chain <= nfaLimit) {
+            // The library's own chain of copies: each copy's accepting states continue into the
+            // next, which determinises in time linear in the chain for the usual bodies.
+            return settle(max == Expr.UNBOUNDED ? body.repeat(min) : body.repeat(min, max));
+        }
+        // Too long for one chain: build by repeated squaring with a bounded automaton per step.
         Automaton head = min > 0 ? power(body, min) : null;
         Automaton tail;
         if (max == Expr.UNBOUNDED) {

@@ -149,7 +149,8 @@ final class PropertySets {
             case "White_Space":
                 // Unicode PropList.txt White_Space (Unicode 13, from memory): the ECMA \s set minus
                 // U+FEFF, plus NEL U+0085.
-                return CACHE.computeIfAbsent(name, k -> space()
+                CodePointSet ecmaSpace = space(); // outside computeIfAbsent: no nested map updates
+                return CACHE.computeIfAbsent(name, k -> ecmaSpace
                         .minus(CodePointSet.of(0xFEFF)).union(CodePointSet.of(0x85)));
             default:
                 return null;
