@@ -142,7 +142,7 @@ class CursorTest {
                 assertArrayEquals(s.bytes(), text.getBytes(StandardCharsets.UTF_8), "valid UTF-8");
                 assertTrue(java.matcher(text).matches(), () -> p[0] + " produced " + text);
             }
-            assertTrue(complete > 900, p[0] + ": " + complete + " complete outputs");
+            assertTrue(complete >= 300, p[0] + ": " + complete + " complete outputs");
         }
     }
 
