@@ -85,6 +85,16 @@ public final class ByteDfa {
         return table[state * classCount + (classOf[b & 0xFF] & 0xFF)];
     }
 
+    /** The state after reading any byte of class {@code byteClass} in {@code state}, or {@link #DEAD}. */
+    public int stepClass(int state, int byteClass) {
+        return table[state * classCount + byteClass];
+    }
+
+    /** The equivalence class of byte {@code b}: bytes of one class behave alike in every state. */
+    public int classOf(int b) {
+        return classOf[b & 0xFF] & 0xFF;
+    }
+
     /** Whether {@code state} is accepting. */
     public boolean accepts(int state) {
         return accepting[state];
@@ -320,74 +330,46 @@ public final class ByteDfa {
         return minimize(rows, accept);
     }
 
-    private static ByteDfa minimize(List<int[]> rows, boolean[] accept) {
-        int n = accept.length;
-        State[] st = new State[n];
-        for (int i = 0; i < n; i++) {
-            st[i] = new State();
-            st[i].setAccept(accept[i]);
-        }
-        for (int i = 0; i < n; i++) {
-            int[] row = rows.get(i);
-            int b = 0;
-            while (b < 256) {
-                int to = row[b];
-                int e = b;
-                while (e + 1 < 256 && row[e + 1] == to) {
-                    e++;
-                }
+    /**
+     * Trims {@code rows} to the states that can reach acceptance, groups bytes into classes, and
+     * minimises by Moore's partition refinement (rounds until the partition stops changing).
+     */
+    private static ByteDfa minimize(List<int[]> rows, boolean[] acc) {
+        int n = acc.length;
+        // trim: keep states that can reach an accepting state (breadth-first over reversed edges)
+        int[] revStart = new int[n + 1];
+        for (int[] row : rows) {
+            for (int to : row) {
                 if (to != DEAD) {
-                    st[i].addTransition(new Transition((char) b, (char) e, st[to]));
+                    revStart[to + 1]++;
                 }
-                b = e + 1;
             }
         }
-        Automaton a = new Automaton();
-        a.setInitialState(st[0]);
-        a.setDeterministic(true);
-        a.minimize();
-        return fromDeterministic(a);
-    }
-
-    /** Reads a deterministic brics automaton over chars 0..255 back into array form, trimmed. */
-    private static ByteDfa fromDeterministic(Automaton a) {
-        List<State> states = new ArrayList<>(a.getStates());
-        states.remove(a.getInitialState());
-        states.add(0, a.getInitialState());
-        Map<State, Integer> ids = new IdentityHashMap<>();
-        for (State s : states) {
-            ids.put(s, ids.size());
-        }
-        int n = states.size();
-        int[][] full = new int[n][256];
-        boolean[] acc = new boolean[n];
         for (int i = 0; i < n; i++) {
-            Arrays.fill(full[i], DEAD);
-            State s = states.get(i);
-            acc[i] = s.isAccept();
-            for (Transition t : s.getTransitions()) {
-                int to = ids.get(t.getDest());
-                for (int b = t.getMin(); b <= t.getMax() && b < 256; b++) {
-                    full[i][b] = to;
+            revStart[i + 1] += revStart[i];
+        }
+        int[] rev = new int[revStart[n]];
+        int[] fill = revStart.clone();
+        for (int i = 0; i < n; i++) {
+            for (int to : rows.get(i)) {
+                if (to != DEAD) {
+                    rev[fill[to]++] = i;
                 }
             }
         }
-        // trim: keep states that can reach an accepting state
         boolean[] live = acc.clone();
-        boolean changed = true;
-        while (changed) {
-            changed = false;
-            for (int i = 0; i < n; i++) {
-                if (live[i]) {
-                    continue;
-                }
-                for (int b = 0; b < 256; b++) {
-                    int to = full[i][b];
-                    if (to != DEAD && live[to]) {
-                        live[i] = true;
-                        changed = true;
-                        break;
-                    }
+        ArrayDeque<Integer> queue = new ArrayDeque<>();
+        for (int i = 0; i < n; i++) {
+            if (live[i]) {
+                queue.add(i);
+            }
+        }
+        while (!queue.isEmpty()) {
+            int t = queue.poll();
+            for (int k = revStart[t]; k < revStart[t + 1]; k++) {
+                if (!live[rev[k]]) {
+                    live[rev[k]] = true;
+                    queue.add(rev[k]);
                 }
             }
         }
@@ -399,39 +381,89 @@ public final class ByteDfa {
         for (int i = 0; i < n; i++) {
             renum[i] = live[i] ? m++ : DEAD;
         }
-        int[][] rows = new int[m][];
+        // byte classes: bytes whose columns agree over the live states
+        byte[] classOf = new byte[256];
+        Map<IntSet, Integer> columns = new HashMap<>();
+        int[] representative = new int[256];
+        for (int b = 0; b < 256; b++) {
+            int[] col = new int[m];
+            for (int i = 0; i < n; i++) {
+                if (live[i]) {
+                    int to = rows.get(i)[b];
+                    col[renum[i]] = to == DEAD ? DEAD : renum[to];
+                }
+            }
+            int size = columns.size();
+            int c = columns.computeIfAbsent(new IntSet(col), k -> size);
+            if (c == size) {
+                representative[c] = b;
+            }
+            classOf[b] = (byte) c;
+        }
+        int classes = columns.size();
+        int[] delta = new int[m * classes];
         boolean[] accepting = new boolean[m];
         for (int i = 0; i < n; i++) {
             if (!live[i]) {
                 continue;
             }
-            int[] row = new int[256];
-            for (int b = 0; b < 256; b++) {
-                int to = full[i][b];
-                row[b] = to == DEAD ? DEAD : renum[to];
-            }
-            rows[renum[i]] = row;
             accepting[renum[i]] = acc[i];
-        }
-        // byte equivalence classes: bytes with identical columns
-        byte[] classOf = new byte[256];
-        Map<IntSet, Integer> columns = new HashMap<>();
-        for (int b = 0; b < 256; b++) {
-            int[] col = new int[m];
-            for (int s = 0; s < m; s++) {
-                col[s] = rows[s][b];
-            }
-            Integer c = columns.computeIfAbsent(new IntSet(col), k -> columns.size());
-            classOf[b] = (byte) (int) c;
-        }
-        int classes = columns.size();
-        int[] table = new int[m * classes];
-        for (int s = 0; s < m; s++) {
-            for (int b = 0; b < 256; b++) {
-                table[s * classes + (classOf[b] & 0xFF)] = rows[s][b];
+            for (int c = 0; c < classes; c++) {
+                int to = rows.get(i)[representative[c]];
+                delta[renum[i] * classes + c] = to == DEAD ? DEAD : renum[to];
             }
         }
-        return new ByteDfa(0, classOf, classes, table, accepting);
+        // Moore refinement
+        int[] block = new int[m];
+        int blocks = 0;
+        for (int i = 0; i < m; i++) {
+            block[i] = accepting[i] ? 1 : 0;
+        }
+        blocks = countDistinct(block);
+        while (true) {
+            Map<IntSet, Integer> sig = new HashMap<>();
+            int[] next = new int[m];
+            for (int i = 0; i < m; i++) {
+                int[] key = new int[classes + 1];
+                key[0] = block[i];
+                for (int c = 0; c < classes; c++) {
+                    int to = delta[i * classes + c];
+                    key[c + 1] = to == DEAD ? DEAD : block[to];
+                }
+                int size = sig.size();
+                next[i] = sig.computeIfAbsent(new IntSet(key), k -> size);
+            }
+            block = next;
+            if (sig.size() == blocks) {
+                break;
+            }
+            blocks = sig.size();
+        }
+        // renumber blocks so the start state is 0 and the rest follow first appearance
+        int[] order = new int[blocks];
+        java.util.Arrays.fill(order, -1);
+        int k = 0;
+        order[block[0]] = k++;
+        for (int i = 0; i < m; i++) {
+            if (order[block[i]] < 0) {
+                order[block[i]] = k++;
+            }
+        }
+        int[] table = new int[blocks * classes];
+        boolean[] acceptingMin = new boolean[blocks];
+        for (int i = 0; i < m; i++) {
+            int b = order[block[i]];
+            acceptingMin[b] = accepting[i];
+            for (int c = 0; c < classes; c++) {
+                int to = delta[i * classes + c];
+                table[b * classes + c] = to == DEAD ? DEAD : order[block[to]];
+            }
+        }
+        return new ByteDfa(0, classOf, classes, table, acceptingMin);
+    }
+
+    private static int countDistinct(int[] xs) {
+        return (int) java.util.Arrays.stream(xs).distinct().count();
     }
 
     /** An int array with value equality, for hashing state sets and columns. */

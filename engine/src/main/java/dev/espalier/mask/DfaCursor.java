@@ -43,7 +43,7 @@ final class DfaCursor implements Cursor {
             Arrays.fill(mask, 0, words, 0L);
             return;
         }
-        System.arraycopy(c.mask(state), 0, mask, 0, words);
+        c.fill(state, mask);
     }
 
     @Override
