@@ -306,7 +306,7 @@ final class AbnfReader {
                 if (type == AbnfSyntaxParser.DEF_NAME && ruleIndent < 0) {
                     ruleIndent = src.span(t).column();
                 }
-            } else if (lineFirst[k] && ruleIndent > 0 && src.span(t).column() <= ruleIndent
+            } else if (lineFirst[k] && ruleIndent > 0 && src.span(t).column() == 1
                     && all.get(sig.get(s - 1)).getType() != AbnfSyntaxParser.DEF_NAME) {
                 syntax(src.span(t), "this line is not indented, so it cannot continue the rule above; "
                         + "indent it, or write 'name = ...' to start a new rule");
