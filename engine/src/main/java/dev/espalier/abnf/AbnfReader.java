@@ -435,7 +435,9 @@ final class AbnfReader {
             return element;
         }
         Token elementToken = ctx.getChildCount() > 1 && ctx.getChild(1) instanceof TerminalNode tn ? tn.getSymbol() : null;
-        return repeated(repeat, elementToken, element);
+        Token last = ctx.getStop();
+        int elementEnd = SourceText.isReal(last) && src.end(last) > element.span().end() ? src.end(last) : element.span().end();
+        return repeated(repeat, elementToken, element, elementEnd);
     }
 
     private Span bracketed(TerminalNode open, TerminalNode close, Expr inner) {
@@ -445,7 +447,7 @@ final class AbnfReader {
         return src.span(start, end);
     }
 
-    private Expr repeated(AbnfSyntaxParser.RepeatContext rc, Token elementToken, Expr element) {
+    private Expr repeated(AbnfSyntaxParser.RepeatContext rc, Token elementToken, Expr element, int elementEnd) {
         Token first = rc.getStart();
         if (!SourceText.isReal(first)) {
             return element;
@@ -484,7 +486,7 @@ final class AbnfReader {
         if (!starSeen) {
             max = min;
         }
-        Span whole = src.span(repeatSpan.start(), Math.max(repeatSpan.end(), element.span().end()));
+        Span whole = src.span(repeatSpan.start(), Math.max(repeatSpan.end(), elementEnd));
         if (tooLarge) {
             report(REPEAT_BOUNDS, Severity.ERROR, repeatSpan, "repetition count is too large (at most " + Integer.MAX_VALUE + ")");
         }
