@@ -64,6 +64,8 @@ final class AbnfReader {
     private final List<UseDirective> directives = new ArrayList<>();
     private final Map<String, RuleDraft> rules = new LinkedHashMap<>();
     private int syntaxCount;
+    /** Unindented continuation lines; reported unless the parser reports the same token. */
+    private final List<Span> unindented = new ArrayList<>();
 
     private AbnfReader(String text, String fileName) {
         this.src = new SourceText(text);
@@ -147,6 +149,16 @@ final class AbnfReader {
         });
         parser.setErrorHandler(new ReadableErrors());
         AbnfSyntaxParser.RulelistContext tree = parser.rulelist();
+        java.util.Set<Integer> reported = new java.util.HashSet<>();
+        for (Diagnostic d : diagnostics) {
+            reported.add(d.span().start());
+        }
+        for (Span u : unindented) {
+            if (!reported.contains(u.start())) {
+                syntax(u, "this line is not indented, so it cannot continue the rule above; "
+                        + "indent it, or write 'name = ...' to start a new rule");
+            }
+        }
 
         // definitions in source order: parsed ones and skipped ones interleave
         List<Object> defs = new ArrayList<>(tree.ruleDefinition());
@@ -284,7 +296,23 @@ final class AbnfReader {
         List<Token> chunkNames = new ArrayList<>();
         Token chunkName = null;
         Token chunkDefinedAs = null;
-        for (int s = 0; s < sig.size(); s++) {
+        // ANTLR cannot resynchronise at the entry of the top-level loop (it would give up on the file),
+        // so text before the first rule is reported and dropped here
+        int firstRule = 0;
+        while (firstRule < sig.size() && all.get(sig.get(firstRule)).getType() != AbnfSyntaxParser.DEF_NAME
+                && all.get(sig.get(firstRule)).getType() != Token.EOF) {
+            firstRule++;
+        }
+        if (firstRule > 0) {
+            Token junk = all.get(sig.get(0));
+            Token last = junk;
+            for (int s = 1; s < firstRule && all.get(sig.get(s)).getLine() == junk.getLine(); s++) {
+                last = all.get(sig.get(s));
+            }
+            syntax(src.span(src.start(junk), src.end(last)), "unexpected " + ReadableErrors.describe(junk)
+                    + "; a grammar starts with a rule definition (name = ...)");
+        }
+        for (int s = firstRule; s < sig.size(); s++) {
             int k = sig.get(s);
             Token t = all.get(k);
             int type = t.getType();
@@ -308,8 +336,7 @@ final class AbnfReader {
                 }
             } else if (lineFirst[k] && ruleIndent > 0 && src.span(t).column() == 1
                     && all.get(sig.get(s - 1)).getType() != AbnfSyntaxParser.DEF_NAME) {
-                syntax(src.span(t), "this line is not indented, so it cannot continue the rule above; "
-                        + "indent it, or write 'name = ...' to start a new rule");
+                unindented.add(src.span(t));
             }
             if (type == AbnfSyntaxLexer.NAME) {
                 chunkNames.add(t);
