@@ -46,7 +46,9 @@ import java.util.Set;
  *       may redefine them. Since values are code points, {@code OCTET} (%x00-FF) means U+0000 to
  *       U+00FF, not arbitrary bytes.</li>
  *   <li>Groups and options nest at most {@value #MAX_NESTING} levels; a rule nesting deeper is
- *       reported at the offending bracket and left with an empty body.</li>
+ *       reported at the offending bracket and left with an empty body. Reading that deep takes about
+ *       1 MB of thread stack (the usual default); on a thread with less, the reader falls back to a
+ *       limit of 64 levels and says so in the diagnostic.</li>
  * </ul>
  *
  * <h2>Diagnostic codes</h2>

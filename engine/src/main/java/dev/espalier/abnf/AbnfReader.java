@@ -7,6 +7,7 @@ import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
 import dev.espalier.grammar.Severity;
 import dev.espalier.grammar.Span;
+import java.util.ArrayDeque;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.LinkedHashMap;
@@ -19,6 +20,7 @@ import org.antlr.v4.runtime.CharStreams;
 import org.antlr.v4.runtime.CommonToken;
 import org.antlr.v4.runtime.CommonTokenStream;
 import org.antlr.v4.runtime.ListTokenSource;
+import org.antlr.v4.runtime.ParserRuleContext;
 import org.antlr.v4.runtime.RecognitionException;
 import org.antlr.v4.runtime.Recognizer;
 import org.antlr.v4.runtime.Token;
@@ -67,16 +69,31 @@ final class AbnfReader {
     /** Unindented continuation lines; reported unless the parser reports the same token. */
     private final List<Span> unindented = new ArrayList<>();
 
-    private AbnfReader(String text, String fileName) {
+    private final int maxNesting;
+    private final String nestingNote;
+
+    private AbnfReader(String text, String fileName, int maxNesting, String nestingNote) {
         this.src = new SourceText(text);
         this.fileName = fileName;
+        this.maxNesting = maxNesting;
+        this.nestingNote = nestingNote;
     }
 
-    /** Reads one file. Throws only on internal failure; {@link Abnf} turns that into a diagnostic. */
+    /**
+     * Reads one file with nesting limited to {@link Abnf#MAX_NESTING}. Should the thread's stack not
+     * suffice for that depth, reads again with a limit of {@link #SMALL_STACK_NESTING}.
+     */
     static FileResult read(String text, String fileName) {
-        AbnfReader r = new AbnfReader(text, fileName);
-        return r.run();
+        try {
+            return new AbnfReader(text, fileName, Abnf.MAX_NESTING, "").run();
+        } catch (StackOverflowError e) {
+            return new AbnfReader(text, fileName, SMALL_STACK_NESTING,
+                    " (the stack of this thread is too small for more)").run();
+        }
     }
+
+    /** The nesting limit used when the caller's thread has too little stack for {@link Abnf#MAX_NESTING}. */
+    static final int SMALL_STACK_NESTING = 64;
 
     // ------------------------------------------------------------------ driver
 
@@ -342,9 +359,9 @@ final class AbnfReader {
                 chunkNames.add(t);
             } else if (type == AbnfSyntaxLexer.LPAREN || type == AbnfSyntaxLexer.LBRACKET) {
                 depth++;
-                if (depth == Abnf.MAX_NESTING + 1 && !dropping) {
-                    syntax(src.span(t), "groups nested deeper than " + Abnf.MAX_NESTING
-                            + " levels; this rule is not read");
+                if (depth == maxNesting + 1 && !dropping) {
+                    syntax(src.span(t), "groups nested deeper than " + maxNesting
+                            + " levels" + nestingNote + "; this rule is not read");
                     dropping = true;
                 }
             } else if (type == AbnfSyntaxLexer.RPAREN || type == AbnfSyntaxLexer.RBRACKET) {
@@ -371,38 +388,82 @@ final class AbnfReader {
 
     // ------------------------------------------------------------------ IR
 
-    private Expr alternation(AbnfSyntaxParser.AlternationContext ctx) {
-        List<Expr> options = new ArrayList<>();
-        for (AbnfSyntaxParser.ConcatenationContext c : ctx.concatenation()) {
-            Expr e = concatenation(c);
-            if (e != null) {
-                options.add(e);
+    /**
+     * The IR of an alternation, built with an explicit stack: compiled frames of a recursive walk are
+     * large enough that a thread's default stack would not reach the nesting limit.
+     */
+    private Expr alternation(AbnfSyntaxParser.AlternationContext root) {
+        ArrayDeque<BuildFrame> stack = new ArrayDeque<>();
+        stack.push(new BuildFrame(root));
+        Expr returned = null;
+        boolean hasReturned = false;
+        while (true) {
+            BuildFrame f = stack.peek();
+            if (hasReturned) {
+                f.results.add(returned);
+                hasReturned = false;
             }
+            ParserRuleContext next = f.nextChild();
+            if (next != null) {
+                stack.push(new BuildFrame(next));
+                continue;
+            }
+            Expr result = finish(f);
+            stack.pop();
+            if (stack.isEmpty()) {
+                return result;
+            }
+            returned = result;
+            hasReturned = true;
         }
-        if (options.isEmpty()) {
-            return null;
-        }
-        if (options.size() == 1) {
-            return options.get(0);
-        }
-        return new Expr.Choice(options, cover(options));
     }
 
-    private Expr concatenation(AbnfSyntaxParser.ConcatenationContext ctx) {
-        List<Expr> items = new ArrayList<>();
-        for (AbnfSyntaxParser.RepetitionContext r : ctx.repetition()) {
-            Expr e = repetition(r);
-            if (e != null) {
-                items.add(e);
+    /** One node of the parse tree being turned into IR: its children are visited first. */
+    private static final class BuildFrame {
+        final ParserRuleContext ctx;
+        final List<? extends ParserRuleContext> children;
+        final List<Expr> results = new ArrayList<>();
+        int next;
+
+        BuildFrame(ParserRuleContext ctx) {
+            this.ctx = ctx;
+            if (ctx instanceof AbnfSyntaxParser.AlternationContext a) {
+                children = a.concatenation();
+            } else if (ctx instanceof AbnfSyntaxParser.ConcatenationContext c) {
+                children = c.repetition();
+            } else if (ctx instanceof AbnfSyntaxParser.GroupElementContext g && g.alternation() != null) {
+                children = List.of(g.alternation());
+            } else if (ctx instanceof AbnfSyntaxParser.OptionElementContext o && o.alternation() != null) {
+                children = List.of(o.alternation());
+            } else {
+                children = List.of();
             }
         }
-        if (items.isEmpty()) {
+
+        ParserRuleContext nextChild() {
+            return next < children.size() ? children.get(next++) : null;
+        }
+    }
+
+    private Expr finish(BuildFrame f) {
+        List<Expr> parts = new ArrayList<>();
+        for (Expr e : f.results) {
+            if (e != null) {
+                parts.add(e);
+            }
+        }
+        if (f.ctx instanceof AbnfSyntaxParser.RepetitionContext r) {
+            return repetition(r, parts.isEmpty() ? null : parts.get(0));
+        }
+        if (parts.isEmpty()) {
             return null;
         }
-        if (items.size() == 1) {
-            return items.get(0);
+        if (parts.size() == 1) {
+            return parts.get(0);
         }
-        return new Expr.Seq(items, cover(items));
+        return f.ctx instanceof AbnfSyntaxParser.AlternationContext
+                ? new Expr.Choice(parts, cover(parts))
+                : new Expr.Seq(parts, cover(parts));
     }
 
     private Span cover(List<Expr> parts) {
@@ -411,7 +472,8 @@ final class AbnfReader {
         return new Span(a.start(), Math.max(a.start(), b.end()), a.line(), a.column());
     }
 
-    private Expr repetition(AbnfSyntaxParser.RepetitionContext ctx) {
+    /** The IR of one repetition; {@code inner} is the IR of a group's or option's content. */
+    private Expr repetition(AbnfSyntaxParser.RepetitionContext ctx, Expr inner) {
         Expr element;
         AbnfSyntaxParser.RepeatContext repeat;
         if (ctx instanceof AbnfSyntaxParser.RefElementContext c) {
@@ -424,11 +486,9 @@ final class AbnfReader {
             sites.add(new RuleSite(t.getText(), element.span(), RuleSite.Kind.REFERENCE, fileName));
         } else if (ctx instanceof AbnfSyntaxParser.GroupElementContext c) {
             repeat = c.repeat();
-            Expr inner = c.alternation() == null ? null : alternation(c.alternation());
             element = inner != null ? inner : new Expr.Choice(List.of(), bracketed(c.LPAREN(), c.RPAREN(), null));
         } else if (ctx instanceof AbnfSyntaxParser.OptionElementContext c) {
             repeat = c.repeat();
-            Expr inner = c.alternation() == null ? null : alternation(c.alternation());
             Span s = bracketed(c.LBRACKET(), c.RBRACKET(), inner);
             element = new Expr.Repeat(inner != null ? inner : new Expr.Seq(List.of(), s), 0, 1, s);
         } else if (ctx instanceof AbnfSyntaxParser.CharValElementContext c) {
