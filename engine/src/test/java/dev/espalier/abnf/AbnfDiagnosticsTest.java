@@ -170,4 +170,22 @@ class AbnfDiagnosticsTest {
         String text = ";@use rootstocks.abnf\nr = \"x\"\n";
         assertCovers(text, ";@use rootstocks.abnf", 0, only(parse(text), "import").span());
     }
+
+    @Test
+    void textBeforeTheFirstRuleIsReportedAndTheRulesStillRead() {
+        String text = "= stray words\norchard = row\nrow = \"t\"\n";
+        AbnfResult r = parse(text);
+        assertCovers(text, "= stray words", 0, only(r, "syntax").span());
+        assertEquals(List.of("orchard", "row"), r.grammar().rules().stream().map(Rule::name).toList());
+    }
+
+    @Test
+    void missingClosingParenthesisIsReportedAndLaterRulesSurvive() {
+        String text = "orchard = (row tree\nrow = \"r\"\ntree = \"t\"\n";
+        AbnfResult r = parse(text);
+        Diagnostic d = only(r, "syntax");
+        assertTrue(d.message().contains("')'"), d.message());
+        assertEquals(3, r.grammar().rules().size());
+        assertEquals(2, ((Expr.Seq) r.grammar().rule("orchard").orElseThrow().body()).items().size());
+    }
 }
