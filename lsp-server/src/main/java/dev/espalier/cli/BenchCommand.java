@@ -94,6 +94,7 @@ final class BenchCommand implements Callable<Integer> {
                 "compile", "first-med", "first-max", "steady", "p99", "cache", "baseline", "ratio");
         out.printf("%-13s %-26s %7s %9s %12s %12s %9s %9s %9s %12s %9s%n", "", "", "", "ms", "µs", "µs", "µs",
                 "µs", "KiB", "ms/mask", "×");
+        boolean warmedUp = false;
         for (String vn : vs) {
             long t0 = System.nanoTime();
             Vocabulary v = VocabOptions.load(vn, null);
@@ -102,6 +103,14 @@ final class BenchCommand implements Callable<Integer> {
             long t2 = System.nanoTime();
             Progress.note(String.format("%s: %d tokens, loaded in %.0f ms, trie of %d nodes built in %.0f ms",
                     v.name(), v.tokenCount(), (t1 - t0) / 1e6, v.trie().nodeCount(), (t2 - t1) / 1e6));
+            if (!warmedUp) {
+                // one unreported pass so that the JIT has compiled the hot paths before any figure is taken
+                Progress.note("warming up on " + v.name());
+                for (String p : pats.values()) {
+                    row("warm-up", p, v);
+                }
+                warmedUp = true;
+            }
             for (Map.Entry<String, String> p : pats.entrySet()) {
                 out.println(row(p.getKey(), p.getValue(), v));
                 out.flush();

@@ -25,7 +25,7 @@ final class Listing {
                 eosAllowed ? "allowed (the text is complete)" : "not allowed");
         byte[] forced = cursor.forcedBytes();
         if (forced.length > 0) {
-            out.println("forced continuation: " + TokenText.jsonLiteral(forced));
+            out.println("forced continuation: " + TokenText.escape(forced));
         }
         int shown = 0;
         for (int id = TokenBits.next(mask, 0); id >= 0 && shown < limit; id = TokenBits.next(mask, id + 1)) {

@@ -82,7 +82,7 @@ final class MaskCommand implements Callable<Integer> {
         }
         out.println(constraint.label());
         out.println("vocabulary: " + v.name() + " (" + v.tokenCount() + " tokens)");
-        out.println("prefix: " + TokenText.jsonLiteral(bytes) + " (" + bytes.length + " bytes)");
+        out.println("prefix: " + TokenText.escape(bytes) + " (" + bytes.length + " bytes)");
         Listing.print(out, cursor, limit);
         return 0;
     }
