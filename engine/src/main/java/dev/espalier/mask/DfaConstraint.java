@@ -136,23 +136,7 @@ final class DfaConstraint implements Constraint {
     /** Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte. */
     long[] compute(int state) {
         long[] m = new long[words];
-        int[] at = new int[trie.maxDepth() + 1];
-        at[0] = state;
-        int n = trie.nodeCount();
-        int i = 1;
-        while (i < n) {
-            int next = dfa.step(at[trie.depth(i) - 1], trie.label(i));
-            if (next == ByteDfa.DEAD) {
-                i = trie.skip(i);
-                continue;
-            }
-            at[trie.depth(i)] = next;
-            for (int k = trie.tokensFrom(i), end = trie.tokensTo(i); k < end; k++) {
-                int id = trie.tokenAt(k);
-                m[id >>> 6] |= 1L << id;
-            }
-            i++;
-        }
+        trie.collect(dfa::step, state, m);
         return m;
     }
 }

@@ -18,8 +18,14 @@ public final class VocabularyTrie {
     private final int[] tokenStart;
     private final int[] tokenIds;
     private final int maxDepth;
+    /** depth << 8 | label, one array read per node on the walk. */
+    private final int[] packed;
 
     private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
+        this.packed = new int[label.length];
+        for (int i = 0; i < label.length; i++) {
+            packed[i] = depth[i] << 8 | (label[i] & 0xFF);
+        }
         this.label = label;
         this.depth = depth;
         this.skip = skip;
@@ -104,6 +110,44 @@ public final class VocabularyTrie {
                 Arrays.copyOf(skip, nodes), starts, tokenIds, maxDepth);
     }
 
+    /** A byte automaton seen by {@link #collect}: the state after a byte, or a negative number for "dead". */
+    @FunctionalInterface
+    public interface Stepper {
+        /** The state after byte {@code b} (0..255) in {@code state}, or a negative number when dead. */
+        int step(int state, int b);
+    }
+
+    /**
+     * Sets in {@code mask} the bit of every token whose bytes lead {@code stepper} from
+     * {@code start} to a live state, walking the trie in preorder and skipping a subtree at its first
+     * dead byte.
+     */
+    public void collect(Stepper stepper, int start, long[] mask) {
+        int[] at = new int[maxDepth + 1];
+        at[0] = start;
+        final int[] packed = this.packed;
+        final int[] skip = this.skip;
+        final int[] tokenStart = this.tokenStart;
+        final int[] tokenIds = this.tokenIds;
+        int n = packed.length;
+        int i = 1;
+        while (i < n) {
+            int p = packed[i];
+            int d = p >>> 8;
+            int next = stepper.step(at[d - 1], p & 0xFF);
+            if (next < 0) {
+                i = skip[i];
+                continue;
+            }
+            at[d] = next;
+            for (int k = tokenStart[i], end = tokenStart[i + 1]; k < end; k++) {
+                int id = tokenIds[k];
+                mask[id >>> 6] |= 1L << id;
+            }
+            i++;
+        }
+    }
+
     /** Number of nodes, the root included. */
     public int nodeCount() {
         return label.length;
@@ -151,7 +195,7 @@ public final class VocabularyTrie {
 
     /** Bytes used by the trie's arrays. */
     public long memoryBytes() {
-        return label.length + 4L * (depth.length + skip.length + tokenStart.length + tokenIds.length);
+        return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length);
     }
 
     /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */
