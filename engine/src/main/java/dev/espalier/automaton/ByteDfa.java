@@ -138,6 +138,40 @@ public final class ByteDfa {
         return s != DEAD && accepting[s];
     }
 
+    /**
+     * Partitions the states by the byte strings of length up to {@code depth} that keep them alive:
+     * refinement rounds of "same block, and every byte class leads to the same block or dies in
+     * both", stopped after {@code depth} rounds or when stable. States of one block allow exactly
+     * the same tokens of at most {@code depth} bytes (acceptance aside).
+     *
+     * @return the block of each state, numbered from 0
+     */
+    public int[] viableClasses(int depth) {
+        int n = stateCount();
+        int[] block = new int[n];
+        int blocks = 1;
+        for (int round = 0; round < depth; round++) {
+            Map<IntSet, Integer> ids = new HashMap<>();
+            int[] next = new int[n];
+            for (int s = 0; s < n; s++) {
+                int[] key = new int[classCount + 1];
+                key[0] = block[s];
+                for (int c = 0; c < classCount; c++) {
+                    int t = table[s * classCount + c];
+                    key[c + 1] = t == DEAD ? DEAD : block[t];
+                }
+                int size = ids.size();
+                next[s] = ids.computeIfAbsent(new IntSet(key), k -> size);
+            }
+            block = next;
+            if (ids.size() == blocks) {
+                break;
+            }
+            blocks = ids.size();
+        }
+        return block;
+    }
+
     /** The bytes that leave {@code state} alive, ascending. */
     public int[] liveBytes(int state) {
         int[] out = new int[256];

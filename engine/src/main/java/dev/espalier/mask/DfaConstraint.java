@@ -4,9 +4,6 @@ import dev.espalier.automaton.ByteDfa;
 import dev.espalier.vocab.Vocabulary;
 import dev.espalier.vocab.VocabularyTrie;
 
-import java.util.Arrays;
-import java.util.HashMap;
-import java.util.Map;
 
 /** A constraint whose language is given by a byte DFA: one cached mask per automaton state. */
 final class DfaConstraint implements Constraint {
@@ -27,54 +24,10 @@ final class DfaConstraint implements Constraint {
         this.vocabulary = vocabulary;
         this.trie = vocabulary.trie();
         this.words = vocabulary.maskWords();
-        this.maskClass = maskClasses(dfa, trie.maxDepth());
+        this.maskClass = dfa.viableClasses(trie.maxDepth());
         this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes());
     }
 
-    /**
-     * Partitions states by their viable byte strings of length up to {@code depth}: refinement
-     * rounds of "same block, and every byte leads to the same block or dies in both", stopped at
-     * {@code depth} rounds or when stable. States in one block allow exactly the same tokens (end
-     * of sequence aside, which depends on acceptance and is set per state).
-     */
-    static int[] maskClasses(ByteDfa dfa, int depth) {
-        int n = dfa.stateCount();
-        int classes = dfa.classCount();
-        int[] block = new int[n];
-        int blocks = 1;
-        for (int round = 0; round < depth; round++) {
-            Map<Key, Integer> ids = new HashMap<>();
-            int[] next = new int[n];
-            for (int s = 0; s < n; s++) {
-                int[] key = new int[classes + 1];
-                key[0] = block[s];
-                for (int c = 0; c < classes; c++) {
-                    int t = dfa.stepClass(s, c);
-                    key[c + 1] = t == ByteDfa.DEAD ? -1 : block[t];
-                }
-                int size = ids.size();
-                next[s] = ids.computeIfAbsent(new Key(key), k -> size);
-            }
-            block = next;
-            if (ids.size() == blocks) {
-                break;
-            }
-            blocks = ids.size();
-        }
-        return block;
-    }
-
-    private record Key(int[] v) {
-        @Override
-        public boolean equals(Object o) {
-            return o instanceof Key k && Arrays.equals(v, k.v);
-        }
-
-        @Override
-        public int hashCode() {
-            return Arrays.hashCode(v);
-        }
-    }
 
     @Override
     public Vocabulary vocabulary() {

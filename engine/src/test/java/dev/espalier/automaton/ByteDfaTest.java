@@ -135,4 +135,39 @@ class ByteDfaTest {
                 () -> ByteDfa.fromCharAutomaton(a, 5_000));
         assertEquals(5_000, e.limit());
     }
+
+    @Test
+    void viableClassesGroupExactlyTheStatesThatAgreeUpToTheDepth() {
+        // [ab]{0,12}c? : a counter; states far from the bound look alike for short strings
+        Automaton a = range('a', 'b').repeat(0, 12).concatenate(Automaton.makeChar('c').optional());
+        ByteDfa dfa = ByteDfa.fromCharAutomaton(a, 1000);
+        int depth = 3;
+        int[] block = dfa.viableClasses(depth);
+        for (int s = 0; s < dfa.stateCount(); s++) {
+            for (int t = 0; t < dfa.stateCount(); t++) {
+                boolean same = viableSignature(dfa, s, depth).equals(viableSignature(dfa, t, depth));
+                assertEquals(same, block[s] == block[t], "states " + s + " and " + t);
+            }
+        }
+        assertTrue(java.util.Arrays.stream(block).distinct().count() < dfa.stateCount());
+    }
+
+    /** Brute force: which strings over a, b, c, d of length 1..depth keep the state alive. */
+    private static String viableSignature(ByteDfa dfa, int state, int depth) {
+        StringBuilder sb = new StringBuilder();
+        java.util.List<String> words = new java.util.ArrayList<>(java.util.List.of(""));
+        for (int len = 1; len <= depth; len++) {
+            java.util.List<String> next = new java.util.ArrayList<>();
+            for (String w : words) {
+                for (char ch = 'a'; ch <= 'd'; ch++) {
+                    next.add(w + ch);
+                }
+            }
+            for (String w : next) {
+                sb.append(dfa.run(state, w.getBytes(StandardCharsets.US_ASCII)) != ByteDfa.DEAD ? '1' : '0');
+            }
+            words = next;
+        }
+        return sb.toString();
+    }
 }
