@@ -106,7 +106,7 @@ class GrammarAnalysisScaleTest {
         assertTimeoutPreemptively(Duration.ofSeconds(30), () -> onSmallStack(() -> {
             GrammarAnalysis a = GrammarAnalysis.of(g);
             RuleFacts f = a.facts("deep");
-            // the outermost layer (i = 99,999) is an alternation around a bracketed sequence
+            // the outermost layer (i = 99,999) is a bracketed sequence
             assertFalse(f.nullable());
             assertTrue(f.canStartWith('(') && !f.canStartWith('l'), "the innermost leaf is bracketed");
             assertEquals("()", f.shortest().orElseThrow(), "the optional layer inside is left out");
