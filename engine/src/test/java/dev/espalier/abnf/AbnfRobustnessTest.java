@@ -100,9 +100,16 @@ class AbnfRobustnessTest {
         t.start();
         t.join(GENEROUS.toMillis());
         AbnfResult r = out.get();
+        assertTrue(r.grammar().rule("next").isPresent());
+        if (r.diagnostics().isEmpty()) {
+            // once the JIT has compiled the reader (other tests in this JVM read a lot of ABNF), its
+            // frames are small enough for the full depth even on this stack: then it must read it all
+            Expr e = r.grammar().rule("deep").orElseThrow().body();
+            assertEquals(new Expr.Text("x", true, e.span()), e);
+            return;
+        }
         Diagnostic d = only(r, "syntax");
         assertTrue(d.message().contains("stack"), d.message());
-        assertTrue(r.grammar().rule("next").isPresent());
     }
 
     @Test
