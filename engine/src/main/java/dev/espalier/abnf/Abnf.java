@@ -137,14 +137,22 @@ public final class Abnf {
             return new AbnfResult(Grammar.of(List.of(), ""), List.of(new Diagnostic(AbnfReader.IMPORT, Severity.ERROR,
                     "cannot read " + main + ": " + e.getMessage(), Span.NONE)), List.of());
         }
-        return parseWithImports(text, main.toString(), (from, path) -> {
+        return parseWithImports(text, main.toString(), fileResolver());
+    }
+
+    /**
+     * The resolver {@link #parseWithImports(Path)} uses: a directive's path is read (UTF-8) relative
+     * to the directory of the file holding it; files are named by their normalised path.
+     */
+    public static ImportResolver fileResolver() {
+        return (from, path) -> {
             try {
-                Path p = Path.of(from).resolveSibling(path).normalize();
+                Path p = Path.of(from).resolveSibling(path).toAbsolutePath().normalize();
                 return Optional.of(new ImportResolver.Source(p.toString(), Files.readString(p, StandardCharsets.UTF_8)));
             } catch (IOException | RuntimeException e) {
                 return Optional.empty();
             }
-        });
+        };
     }
 
     private static AbnfResult readWithImports(String text, String fileName, ImportResolver resolver) {

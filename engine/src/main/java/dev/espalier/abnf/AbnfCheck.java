@@ -43,6 +43,22 @@ public final class AbnfCheck {
                 fileName == null ? "<input>" : fileName);
     }
 
+    /**
+     * Reads and checks an ABNF file (UTF-8) and the files its directives name, relative to it.
+     *
+     * @throws java.io.UncheckedIOException when the file cannot be read
+     */
+    public static AbnfResult checkFile(java.nio.file.Path file) {
+        java.nio.file.Path main = file.toAbsolutePath().normalize();
+        String text;
+        try {
+            text = java.nio.file.Files.readString(main, java.nio.charset.StandardCharsets.UTF_8);
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        return checkWithImports(text, main.toString(), Abnf.fileResolver());
+    }
+
     private static AbnfResult merge(AbnfResult read, String text, String fileName) {
         Set<String> own = new HashSet<>();
         for (RuleSite s : read.sites()) {

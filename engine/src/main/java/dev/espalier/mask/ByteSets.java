@@ -1,13 +1,19 @@
 package dev.espalier.mask;
 
-/** Readable descriptions of sets of bytes, for messages. */
-final class ByteSets {
+/** Readable descriptions of bytes and sets of bytes, for messages. */
+public final class ByteSets {
 
     private ByteSets() {
     }
 
-    /** E.g. {@code one of '0'-'9', '-', or end of text}. */
-    static String describe(int[] bytes, boolean canEnd) {
+    /**
+     * Describes the bytes that may follow and whether the text may end, e.g. {@code one of '0'-'9',
+     * '-', or end of text}.
+     *
+     * @param bytes  byte values, ascending
+     * @param canEnd whether the text may end here
+     */
+    public static String describe(int[] bytes, boolean canEnd) {
         StringBuilder sb = new StringBuilder();
         int parts = 0;
         int i = 0;
@@ -32,8 +38,8 @@ final class ByteSets {
         return canEnd ? body + ", or end of text" : body;
     }
 
-    /** A byte as a quoted printable character or {@code 0xNN}. */
-    static String show(int b) {
+    /** A byte as a quoted printable character, {@code space}, or {@code 0xNN}. */
+    public static String show(int b) {
         if (b >= 0x21 && b < 0x7F && b != '\'') {
             return "'" + (char) b + "'";
         }
@@ -45,5 +51,17 @@ final class ByteSets {
             case '\t' -> "'\\t'";
             default -> String.format("0x%02X", b);
         };
+    }
+
+    /** Describes a 256-bit byte set (bit {@code b & 63} of word {@code b >>> 6}), see {@link #describe(int[], boolean)}. */
+    public static String describe(long[] set, boolean canEnd) {
+        int[] bytes = new int[256];
+        int n = 0;
+        for (int b = 0; b < 256; b++) {
+            if ((set[b >>> 6] & (1L << b)) != 0) {
+                bytes[n++] = b;
+            }
+        }
+        return describe(java.util.Arrays.copyOf(bytes, n), canEnd);
     }
 }

@@ -2,7 +2,10 @@ package dev.espalier.mask;
 
 import dev.espalier.automaton.ByteDfa;
 import dev.espalier.automaton.CharAutomata;
+import dev.espalier.earley.EarleyGrammar;
 import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.Grammar;
+import dev.espalier.grammar.Rule;
 import dev.espalier.regex.RegexSyntax;
 import dev.espalier.vocab.Vocabulary;
 
@@ -58,5 +61,38 @@ public interface Constraint {
             throw new IllegalArgumentException("no string matches the pattern: its language is empty");
         }
         return of(dfa, vocabulary, settings);
+    }
+
+    /**
+     * Compiles a grammar (from any front end) against a vocabulary with default settings. A grammar
+     * whose start rule reaches no recursion compiles to a byte automaton (the fastest masks);
+     * otherwise masks come from an Earley parser walked over the vocabulary trie. The language is
+     * the same either way.
+     *
+     * @throws IllegalArgumentException when a rule is undefined or the language is empty
+     */
+    static Constraint grammar(Grammar grammar, Vocabulary vocabulary) {
+        return grammar(grammar, vocabulary, MaskSettings.defaults());
+    }
+
+    /** As {@link #grammar(Grammar, Vocabulary)}, with explicit settings. */
+    static Constraint grammar(Grammar grammar, Vocabulary vocabulary, MaskSettings settings) {
+        if (grammar.rule(grammar.start()).isEmpty()) {
+            throw new IllegalArgumentException("the start rule " + grammar.start() + " is not defined");
+        }
+        if (!GrammarShape.reachesRecursion(grammar)) {
+            try {
+                ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compile(Expr.ref(grammar.start()),
+                        name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit()),
+                        settings.stateLimit());
+                if (dfa.isEmpty()) {
+                    throw new IllegalArgumentException("the grammar's language is empty: no output can satisfy it");
+                }
+                return of(dfa, vocabulary, settings);
+            } catch (dev.espalier.automaton.AutomatonTooLargeException e) {
+                // too large for an automaton: the parser handles it exactly, if more slowly
+            }
+        }
+        return new EarleyConstraint(EarleyGrammar.compile(grammar), vocabulary, settings);
     }
 }

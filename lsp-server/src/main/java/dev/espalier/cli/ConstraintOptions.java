@@ -39,9 +39,12 @@ final class ConstraintOptions {
         return MaskSettings.defaults().withStateLimit(stateLimit).withCacheBudget(cacheMb << 20);
     }
 
-    Constraint compile(Vocabulary vocabulary) {
+    Constraint compile(Vocabulary vocabulary, java.io.PrintWriter err) {
         if (source.grammar != null) {
-            throw new UserInputException("--grammar is not yet supported");
+            return Constraint.grammar(GrammarFiles.load(source.grammar, start, err), vocabulary, settings());
+        }
+        if (start != null) {
+            throw new UserInputException("--start applies to --grammar only");
         }
         if (source.schema != null) {
             throw new UserInputException("--schema is not yet supported");

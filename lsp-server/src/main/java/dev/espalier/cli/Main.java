@@ -16,6 +16,11 @@ import java.io.PrintWriter;
             SampleCommand.class,
             VocabCommand.class,
             BenchCommand.class,
+            CheckCommand.class,
+            TestCommand.class,
+            ParseCommand.class,
+            ExamplesCommand.class,
+            FmtCommand.class,
             CommandLine.HelpCommand.class,
         })
 public final class Main implements Runnable {

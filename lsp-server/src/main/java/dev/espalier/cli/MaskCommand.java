@@ -61,7 +61,7 @@ final class MaskCommand implements Callable<Integer> {
             bytes = Files.readAllBytes(prefix.file);
         }
         Vocabulary v = vocab.load();
-        Constraint c = constraint.compile(v);
+        Constraint c = constraint.compile(v, err);
         Cursor cursor = c.start();
         try {
             cursor.feedBytes(bytes);

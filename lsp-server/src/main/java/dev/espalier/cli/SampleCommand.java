@@ -41,7 +41,7 @@ final class SampleCommand implements Callable<Integer> {
     public Integer call() {
         PrintWriter out = spec.commandLine().getOut();
         PrintWriter err = spec.commandLine().getErr();
-        Constraint c = constraint.compile(vocab.load());
+        Constraint c = constraint.compile(vocab.load(), err);
         Random rnd = seed == null ? new Random() : new Random(seed);
         for (int i = 0; i < count; i++) {
             MaskedSampler.Sample s = MaskedSampler.sample(c, rnd, maxTokens);

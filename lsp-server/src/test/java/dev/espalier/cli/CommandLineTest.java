@@ -74,7 +74,7 @@ class CommandLineTest {
         assertFalse(bad.err().contains("Exception"), bad.err());
         assertEquals(2, run("mask").code());
         assertEquals(2, run("mask", "--regex", "a", "--vocab", "/no/such/vocab.json").code());
-        Run g = run("mask", "--grammar", "orchard.abnf");
+        Run g = run("mask", "--schema", "orchard.schema.json");
         assertEquals(2, g.code());
         assertTrue(g.err().contains("not yet supported"), g.err());
         Run empty = run("mask", "--regex", "[^\\s\\S]");
