@@ -19,7 +19,7 @@ import java.util.Arrays;
  * <p>The chart always holds a viable prefix: {@link #feed(int)} refuses (and ignores) a byte after
  * which no string of the language could follow. A chart is not thread-safe; use {@link #fork()}.
  */
-public final class EarleyChart {
+public final class EarleyChart implements ByteChart {
 
     private final EarleyGrammar g;
     private final long maxItems;
@@ -136,12 +136,19 @@ public final class EarleyChart {
     }
 
     /** An independent copy of this chart (costs time and memory proportional to its items). */
+    @Override
     public EarleyChart fork() {
         return new EarleyChart(this);
     }
 
     /** Number of bytes fed (and not undone). */
     public int length() {
+        return len;
+    }
+
+    /** Same as {@link #length()}: one undoable step per byte. */
+    @Override
+    public int depth() {
         return len;
     }
 
@@ -164,11 +171,13 @@ public final class EarleyChart {
     }
 
     /** Whether the input so far is a string of the language. */
+    @Override
     public boolean accepts() {
         return setAccept[len];
     }
 
     /** Whether some byte can follow the input so far. */
+    @Override
     public boolean canContinue() {
         return setScanEnd[len] > setScanStart[len];
     }
@@ -188,6 +197,7 @@ public final class EarleyChart {
      * Writes the set of bytes that may follow the input so far into {@code out} (four words, bit
      * {@code b & 63} of word {@code b >>> 6} for byte b).
      */
+    @Override
     public void expectedBytes(long[] out) {
         out[0] = out[1] = out[2] = out[3] = 0;
         long[] bits = g.termBits;
@@ -215,6 +225,7 @@ public final class EarleyChart {
      * @return whether the byte was accepted; when not, the chart is unchanged
      * @throws EarleyLimitException when the item limit is reached (the chart is unchanged)
      */
+    @Override
     public boolean feed(int b) {
         checkByte(b);
         int prev = len;
@@ -266,6 +277,7 @@ public final class EarleyChart {
      *
      * @throws IllegalArgumentException when {@code n} is negative or more than {@link #length()}
      */
+    @Override
     public void undo(int n) {
         if (n < 0 || n > len) {
             throw new IllegalArgumentException("cannot undo " + n + " of " + len + " bytes");

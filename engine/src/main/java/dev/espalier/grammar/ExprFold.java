@@ -6,26 +6,26 @@ import java.util.List;
 
 /**
  * A bottom-up evaluation of an expression tree with an explicit stack (expressions may nest far
- * deeper than a thread's stack allows for recursion). Package-private: the analysis's workhorse.
+ * deeper than a thread's stack allows for recursion). The analysis's workhorse, also used by the Earley lowering.
  *
  * @param <V> the value computed for each node
  */
-abstract class ExprFold<V> {
+public abstract class ExprFold<V> {
 
     /** The value of a {@link Expr.Chars}, {@link Expr.Text} or {@link Expr.Ref}. */
-    abstract V leaf(Expr e);
+    protected abstract V leaf(Expr e);
 
     /** The value of a concatenation from its items' values. */
-    abstract V seq(Expr.Seq s, List<V> items);
+    protected abstract V seq(Expr.Seq s, List<V> items);
 
     /** The value of an alternation from its options' values. */
-    abstract V choice(Expr.Choice c, List<V> options);
+    protected abstract V choice(Expr.Choice c, List<V> options);
 
     /** The value of a repetition from its body's value. */
-    abstract V repeat(Expr.Repeat r, V body);
+    protected abstract V repeat(Expr.Repeat r, V body);
 
     /** The children of a node, in order. */
-    static List<Expr> children(Expr e) {
+    public static List<Expr> children(Expr e) {
         if (e instanceof Expr.Seq s) {
             return s.items();
         } else if (e instanceof Expr.Choice c) {
@@ -41,7 +41,7 @@ abstract class ExprFold<V> {
      *
      * @param record when not null, receives every node's value (keyed by identity)
      */
-    final V run(Expr root, IdentityHashMap<Expr, V> record) {
+    public final V run(Expr root, IdentityHashMap<Expr, V> record) {
         List<Expr> nodes = new ArrayList<>();
         List<Integer> next = new ArrayList<>();
         List<V> values = new ArrayList<>();

@@ -293,7 +293,7 @@ public final class GrammarAnalysis {
     /** Cost of a node given the current rule costs. */
     private final class CostFold extends ExprFold<Cost> {
         @Override
-        Cost leaf(Expr e) {
+        protected Cost leaf(Expr e) {
             if (e instanceof Expr.Chars c) {
                 CodePointSet s = c.set().minus(SURROGATES);
                 return s.isEmpty() ? Cost.INFINITE : new Cost(utf8Length(s.lo(0)), 0);
@@ -308,7 +308,7 @@ public final class GrammarAnalysis {
         }
 
         @Override
-        Cost seq(Expr.Seq s, List<Cost> items) {
+        protected Cost seq(Expr.Seq s, List<Cost> items) {
             long len = 0;
             int h = 0;
             for (Cost c : items) {
@@ -322,7 +322,7 @@ public final class GrammarAnalysis {
         }
 
         @Override
-        Cost choice(Expr.Choice c, List<Cost> options) {
+        protected Cost choice(Expr.Choice c, List<Cost> options) {
             Cost best = Cost.INFINITE;
             for (Cost o : options) {
                 if (o.less(best)) {
@@ -333,7 +333,7 @@ public final class GrammarAnalysis {
         }
 
         @Override
-        Cost repeat(Expr.Repeat r, Cost body) {
+        protected Cost repeat(Expr.Repeat r, Cost body) {
             if (r.min() == 0 || r.max() == 0) {
                 return Cost.ZERO;
             }
@@ -363,7 +363,7 @@ public final class GrammarAnalysis {
         boolean[] p = new boolean[rules.length];
         ExprFold<Boolean> fold = new ExprFold<>() {
             @Override
-            Boolean leaf(Expr e) {
+            protected Boolean leaf(Expr e) {
                 if (e instanceof Expr.Ref r) {
                     Integer t = index.get(Grammar.key(r.name()));
                     return t == null || p[t];
@@ -372,17 +372,17 @@ public final class GrammarAnalysis {
             }
 
             @Override
-            Boolean seq(Expr.Seq s, List<Boolean> items) {
+            protected Boolean seq(Expr.Seq s, List<Boolean> items) {
                 return !items.contains(Boolean.FALSE);
             }
 
             @Override
-            Boolean choice(Expr.Choice c, List<Boolean> options) {
+            protected Boolean choice(Expr.Choice c, List<Boolean> options) {
                 return options.isEmpty() || options.contains(Boolean.TRUE);
             }
 
             @Override
-            Boolean repeat(Expr.Repeat r, Boolean body) {
+            protected Boolean repeat(Expr.Repeat r, Boolean body) {
                 return r.min() == 0 || r.max() == 0 || body;
             }
         };
@@ -402,7 +402,7 @@ public final class GrammarAnalysis {
         long[][] first = new long[rules.length][4];
         ExprFold<long[]> fold = new ExprFold<>() {
             @Override
-            long[] leaf(Expr e) {
+            protected long[] leaf(Expr e) {
                 if (!nodeCost.get(e).finite()) {
                     return new long[4];
                 }
@@ -424,7 +424,7 @@ public final class GrammarAnalysis {
             }
 
             @Override
-            long[] seq(Expr.Seq s, List<long[]> items) {
+            protected long[] seq(Expr.Seq s, List<long[]> items) {
                 long[] b = new long[4];
                 if (!nodeCost.get(s).finite()) {
                     return b;
@@ -439,7 +439,7 @@ public final class GrammarAnalysis {
             }
 
             @Override
-            long[] choice(Expr.Choice c, List<long[]> options) {
+            protected long[] choice(Expr.Choice c, List<long[]> options) {
                 long[] b = new long[4];
                 for (long[] o : options) {
                     or(b, o);
@@ -448,7 +448,7 @@ public final class GrammarAnalysis {
             }
 
             @Override
-            long[] repeat(Expr.Repeat r, long[] body) {
+            protected long[] repeat(Expr.Repeat r, long[] body) {
                 return r.max() == 0 || !nodeCost.get(r).finite() ? new long[4] : body;
             }
         };
