@@ -18,8 +18,8 @@ import org.junit.jupiter.api.Test;
 
 /**
  * The RFC 3986 grammars ({@code grammars/uri.abnf}, start URI, and {@code grammars/uri-reference.abnf},
- * start URI-reference through a {@code ;@use} import) against the RFC's own examples and
- * {@link java.net.URI}.
+ * start URI-reference through a {@code ;@use} import) against the RFC's own examples (written
+ * down from memory of RFC 3986) and {@link java.net.URI}.
  */
 class UriTest {
 
