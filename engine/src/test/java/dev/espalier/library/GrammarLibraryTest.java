@@ -161,6 +161,22 @@ class GrammarLibraryTest {
         return tests.stream();
     }
 
+    /** The Earley recognizer agrees with the independent references on every sample of every grammar. */
+    @TestFactory
+    Stream<DynamicTest> theEarleyRecognizerAgreesWithTheReferencesOnEverySample() {
+        List<DynamicTest> tests = new ArrayList<>();
+        for (String name : GrammarLibrary.names()) {
+            Grammar g = GrammarLibrary.load(name).grammar();
+            tests.add(dynamicTest(name, () -> {
+                for (GrammarLibrary.Sample s : GrammarLibrary.samples(name)) {
+                    assertEquals(LibraryHarness.referenceAccepts(g, s.text()), LibraryHarness.accepts(g, s.text()),
+                            s.file().toString());
+                }
+            }));
+        }
+        return tests.stream();
+    }
+
     @Test
     void theRecursiveGrammarsAreExactlyTheOnesExpected() {
         // json, email (nested comments), arithmetic and tree-query (parentheses) are recursive; the

@@ -1,6 +1,8 @@
 package dev.espalier.library;
 
 import dev.espalier.automaton.CharAutomata;
+import dev.espalier.earley.EarleyChart;
+import dev.espalier.earley.EarleyGrammar;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
@@ -18,14 +20,11 @@ import java.util.Optional;
 /**
  * The one place where the library tests decide whether a grammar accepts an input.
  *
- * <p>The tests are written against the recognizer shape of the Earley parser (feed bytes, then ask
- * whether the text so far is in the language). Until that parser is available here, regular
- * (non-recursive) grammars are decided by a dk.brics automaton compiled with {@link CharAutomata},
- * and recursive ones by the slow {@link ReferenceRecognizer}, which gives up on inputs nesting
- * deeper than {@link ReferenceRecognizer#MAX_DEPTH} (throwing {@link ReferenceRecognizer.TooDeep}).
- * Switching to the Earley parser means replacing the body of {@link #accepts(Grammar, byte[])} by
- * {@code EarleyGrammar.compile(g).newChart()} (compiled once per grammar), feeding every byte while
- * {@code feed} returns true, and answering {@code accepts()} when all bytes were taken.
+ * <p>{@link #accepts(Grammar, byte[])} asks the product: the Earley recognizer
+ * ({@link EarleyGrammar}), fed byte by byte. {@link #referenceAccepts(Grammar, byte[])} is its
+ * independent twin: a dk.brics automaton compiled with {@link CharAutomata} for regular grammars,
+ * and the slow {@link ReferenceRecognizer} for recursive ones (which gives up on inputs nesting
+ * deeper than {@link ReferenceRecognizer#MAX_DEPTH}, throwing {@link ReferenceRecognizer.TooDeep}).
  */
 final class LibraryHarness {
 
@@ -46,9 +45,20 @@ final class LibraryHarness {
      * Whether the bytes, read as UTF-8, are a sentence of the grammar's start rule. Malformed UTF-8
      * is never accepted: grammars describe Unicode text, matched as UTF-8.
      *
-     * @throws ReferenceRecognizer.TooDeep if a recursive grammar meets input nesting too deeply
      */
     static boolean accepts(Grammar g, byte[] input) {
+        EarleyChart chart = EARLEY.computeIfAbsent(g, EarleyGrammar::compile).newChart();
+        return chart.feedAll(input) == input.length && chart.accepts();
+    }
+
+    private static final Map<Grammar, EarleyGrammar> EARLEY = Collections.synchronizedMap(new IdentityHashMap<>());
+
+    /**
+     * The independent reference's verdict (automaton or {@link ReferenceRecognizer}).
+     *
+     * @throws ReferenceRecognizer.TooDeep if a recursive grammar meets input nesting too deeply
+     */
+    static boolean referenceAccepts(Grammar g, byte[] input) {
         String text = utf8(input);
         if (text == null) {
             return false;
