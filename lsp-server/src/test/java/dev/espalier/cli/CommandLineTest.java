@@ -19,7 +19,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 /** The command line's contract: outputs and exit codes. */
 class CommandLineTest {
 
-    record Run(int code, String out, String err) {
+    public record Run(int code, String out, String err) {
     }
 
     static Run run(String... args) {
