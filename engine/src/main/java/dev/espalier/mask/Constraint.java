@@ -3,6 +3,7 @@ package dev.espalier.mask;
 import dev.espalier.automaton.ByteDfa;
 import dev.espalier.automaton.CharAutomata;
 import dev.espalier.earley.EarleyGrammar;
+import dev.espalier.earley.SplitGrammar;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
@@ -93,6 +94,11 @@ public interface Constraint {
                 // too large for an automaton: the parser handles it exactly, if more slowly
             }
         }
-        return new EarleyConstraint(EarleyGrammar.compile(grammar), vocabulary, settings);
+        try {
+            return new SplitConstraint(SplitGrammar.compile(grammar, settings.stateLimit()), vocabulary, settings);
+        } catch (dev.espalier.automaton.AutomatonTooLargeException e) {
+            // a lexical part too large for an automaton: the byte-level parser handles it exactly, if more slowly
+            return new EarleyConstraint(EarleyGrammar.compile(grammar), vocabulary, settings);
+        }
     }
 }

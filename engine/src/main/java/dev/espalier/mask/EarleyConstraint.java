@@ -1,39 +1,39 @@
 package dev.espalier.mask;
 
+import dev.espalier.earley.ByteChart;
 import dev.espalier.earley.EarleyGrammar;
 import dev.espalier.vocab.Vocabulary;
-import dev.espalier.vocab.VocabularyTrie;
 
 /**
- * A constraint whose language is context-free: masks by walking the vocabulary trie alongside an
- * Earley chart, feeding one byte per trie edge and undoing it on the way back, pruning a whole
- * subtree at its first refused byte. Exact by construction; nothing is cached between steps.
+ * A context-free constraint by the plain method: masks by walking the whole vocabulary trie alongside
+ * a byte-level Earley chart, feeding one byte per trie edge and undoing it on the way back, pruning a
+ * subtree at its first refused byte. Exact by construction and cache-free; the slow twin of
+ * {@link SplitConstraint}, used when a grammar cannot be split.
  */
-final class EarleyConstraint implements Constraint {
+final class EarleyConstraint extends ChartConstraint {
 
     final EarleyGrammar grammar;
-    final Vocabulary vocabulary;
-    final VocabularyTrie trie;
     final long maxItems;
 
     EarleyConstraint(EarleyGrammar grammar, Vocabulary vocabulary, MaskSettings settings) {
+        super(vocabulary);
         if (grammar.isEmptyLanguage()) {
             throw new IllegalArgumentException("the grammar's language is empty: no output can satisfy it");
         }
         this.grammar = grammar;
-        this.vocabulary = vocabulary;
-        this.trie = vocabulary.trie();
         this.maxItems = settings.parserItemLimit();
     }
 
     @Override
-    public Vocabulary vocabulary() {
-        return vocabulary;
+    ByteChart newChart() {
+        return grammar.newChart(maxItems, true);
     }
 
     @Override
-    public Cursor start() {
-        return new EarleyCursor(this, grammar.newChart(maxItems, true));
+    void fill(ByteChart chart, long[] mask) {
+        long[] first = new long[4];
+        chart.expectedBytes(first);
+        walk(chart, 0, trie.nodeCount(), first, mask);
     }
 
     @Override
@@ -48,7 +48,7 @@ final class EarleyConstraint implements Constraint {
 
     @Override
     public String describe() {
-        return "Earley parser, " + grammar.nonterminalCount() + " nonterminals, " + grammar.productionCount()
-                + " productions, " + grammar.byteClassCount() + " byte classes";
+        return "Earley parser over bytes, " + grammar.nonterminalCount() + " nonterminals, "
+                + grammar.productionCount() + " productions";
     }
 }

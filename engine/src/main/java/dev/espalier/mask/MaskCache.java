@@ -5,13 +5,13 @@ import java.util.concurrent.atomic.AtomicLong;
 import java.util.concurrent.atomic.AtomicReferenceArray;
 
 /**
- * Masks cached by a dense key (an automaton state), safe for concurrent use, within a memory
- * budget. When an insertion would cross the budget, a clock hand sweeps the slots and evicts entries
- * until it fits; evicted masks are recomputed on demand. Accounting counts the mask arrays only.
+ * Values (masks, node lists) cached by a dense key, safe for concurrent use, within a memory budget.
+ * When an insertion would cross the budget, a clock hand sweeps the slots and evicts entries until it
+ * fits; evicted values are recomputed on demand. Accounting counts the cached arrays only.
  */
 final class MaskCache {
 
-    private final AtomicReferenceArray<long[]> slots;
+    private final AtomicReferenceArray<Object> slots;
     private final long budget;
     private final AtomicLong bytes = new AtomicLong();
     private final AtomicInteger count = new AtomicInteger();
@@ -23,31 +23,40 @@ final class MaskCache {
     }
 
     long[] get(int key) {
+        return (long[]) slots.get(key);
+    }
+
+    Object getObject(int key) {
         return slots.get(key);
     }
 
-    /** Caches {@code mask} under {@code key} if the budget allows; returns the cached instance. */
+    /** Caches a mask under {@code key} if the budget allows; returns the cached instance. */
     long[] put(int key, long[] mask) {
-        long size = sizeOf(mask);
+        return (long[]) putObject(key, mask);
+    }
+
+    /** Caches a {@code long[]} or {@code int[]} under {@code key} if the budget allows; returns the cached instance. */
+    Object putObject(int key, Object value) {
+        long size = sizeOf(value);
         if (size > budget) {
-            return mask;
+            return value;
         }
         int n = slots.length();
         for (int swept = 0; bytes.get() + size > budget && swept < 2 * n; swept++) {
             int k = Math.floorMod(hand.getAndIncrement(), n);
-            long[] old = slots.getAndSet(k, null);
+            Object old = slots.getAndSet(k, null);
             if (old != null) {
                 bytes.addAndGet(-sizeOf(old));
                 count.decrementAndGet();
             }
         }
-        if (slots.compareAndSet(key, null, mask)) {
+        if (slots.compareAndSet(key, null, value)) {
             bytes.addAndGet(size);
             count.incrementAndGet();
-            return mask;
+            return value;
         }
-        long[] other = slots.get(key);
-        return other != null ? other : mask;
+        Object other = slots.get(key);
+        return other != null ? other : value;
     }
 
     long bytes() {
@@ -58,7 +67,10 @@ final class MaskCache {
         return count.get();
     }
 
-    private static long sizeOf(long[] mask) {
-        return 16L + 8L * mask.length;
+    private static long sizeOf(Object value) {
+        if (value instanceof long[] l) {
+            return 16L + 8L * l.length;
+        }
+        return 16L + 4L * ((int[]) value).length;
     }
 }

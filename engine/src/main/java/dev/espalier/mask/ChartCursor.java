@@ -1,34 +1,33 @@
 package dev.espalier.mask;
 
-import dev.espalier.earley.EarleyChart;
+import dev.espalier.earley.ByteChart;
 import dev.espalier.vocab.Vocabulary;
-import dev.espalier.vocab.VocabularyTrie;
 
 import java.io.ByteArrayOutputStream;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
 
-/** A cursor over an {@link EarleyConstraint}: an Earley chart plus the chart length before each step. */
-final class EarleyCursor implements Cursor {
+/** A cursor over a {@link ChartConstraint}: a parser chart plus the chart depth before each step. */
+final class ChartCursor implements Cursor {
 
     /** Longest forced continuation reported, a guard against pathological grammars. */
     private static final int MAX_FORCED = 4096;
 
-    private final EarleyConstraint c;
-    private final EarleyChart chart;
+    private final ChartConstraint c;
+    private final ByteChart chart;
     private int[] lengths;
     private int depth;
     private boolean finished;
     /** Step index at which end of sequence was fed, or -1. */
     private int finishedAt = -1;
 
-    EarleyCursor(EarleyConstraint c, EarleyChart chart) {
+    ChartCursor(ChartConstraint c, ByteChart chart) {
         this.c = c;
         this.chart = chart;
         this.lengths = new int[64];
     }
 
-    private EarleyCursor(EarleyCursor o) {
+    private ChartCursor(ChartCursor o) {
         this.c = o.c;
         this.chart = o.chart.fork();
         this.lengths = o.lengths.clone();
@@ -44,34 +43,12 @@ final class EarleyCursor implements Cursor {
 
     @Override
     public void fillMask(long[] mask) {
-        Vocabulary v = c.vocabulary;
+        Vocabulary v = c.vocabulary();
         Arrays.fill(mask, 0, v.maskWords(), 0L);
         if (finished) {
             return;
         }
-        VocabularyTrie trie = c.trie;
-        int base = chart.length();
-        int n = trie.nodeCount();
-        int i = 1;
-        try {
-            while (i < n) {
-                int excess = chart.length() - (base + trie.depth(i) - 1);
-                if (excess > 0) {
-                    chart.undo(excess);
-                }
-                if (!chart.feed(trie.label(i) & 0xFF)) {
-                    i = trie.skip(i);
-                    continue;
-                }
-                for (int k = trie.tokensFrom(i), end = trie.tokensTo(i); k < end; k++) {
-                    int id = trie.tokenAt(k);
-                    mask[id >>> 6] |= 1L << id;
-                }
-                i++;
-            }
-        } finally {
-            chart.undo(chart.length() - base);
-        }
+        c.fill(chart, mask);
         int eos = v.endOfSequence();
         if (eos >= 0 && chart.accepts()) {
             mask[eos >>> 6] |= 1L << eos;
@@ -80,7 +57,7 @@ final class EarleyCursor implements Cursor {
 
     @Override
     public boolean allows(int id) {
-        Vocabulary v = c.vocabulary;
+        Vocabulary v = c.vocabulary();
         if (finished || !v.has(id)) {
             return false;
         }
@@ -105,7 +82,7 @@ final class EarleyCursor implements Cursor {
     @Override
     public void feed(int id) {
         if (!tryFeed(id)) {
-            Vocabulary v = c.vocabulary;
+            Vocabulary v = c.vocabulary();
             String what = v.has(id) ? "token " + id + " (" + v.display(id) + ")" : "token id " + id;
             throw new RejectedInputException(what + " is not allowed here; expected " + expected(), 0, expected());
         }
@@ -116,7 +93,7 @@ final class EarleyCursor implements Cursor {
         if (!allows(id)) {
             return false;
         }
-        Vocabulary v = c.vocabulary;
+        Vocabulary v = c.vocabulary();
         push();
         if (id == v.endOfSequence()) {
             finished = true;
@@ -170,7 +147,7 @@ final class EarleyCursor implements Cursor {
         if (depth == lengths.length) {
             lengths = Arrays.copyOf(lengths, depth * 2);
         }
-        lengths[depth++] = chart.length();
+        lengths[depth++] = chart.depth();
     }
 
     @Override
@@ -182,7 +159,7 @@ final class EarleyCursor implements Cursor {
             return;
         }
         depth -= steps;
-        chart.undo(chart.length() - lengths[depth]);
+        chart.undo(chart.depth() - lengths[depth]);
         if (finished && finishedAt >= depth) {
             finished = false;
             finishedAt = -1;
@@ -196,7 +173,7 @@ final class EarleyCursor implements Cursor {
 
     @Override
     public Cursor fork() {
-        return new EarleyCursor(this);
+        return new ChartCursor(this);
     }
 
     @Override
@@ -255,14 +232,8 @@ final class EarleyCursor implements Cursor {
         if (finished) {
             return "nothing (the output has ended)";
         }
-        long[] set = chart.expectedByteSet();
-        int[] bytes = new int[256];
-        int n = 0;
-        for (int b = 0; b < 256; b++) {
-            if ((set[b >>> 6] & (1L << b)) != 0) {
-                bytes[n++] = b;
-            }
-        }
-        return ByteSets.describe(Arrays.copyOf(bytes, n), chart.accepts());
+        long[] set = new long[4];
+        chart.expectedBytes(set);
+        return ByteSets.describe(set, chart.accepts());
     }
 }

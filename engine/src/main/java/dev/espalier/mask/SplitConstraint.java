@@ -1,0 +1,175 @@
+package dev.espalier.mask;
+
+import dev.espalier.automaton.ByteDfa;
+import dev.espalier.earley.ByteChart;
+import dev.espalier.earley.SplitChart;
+import dev.espalier.earley.SplitGrammar;
+import dev.espalier.vocab.Vocabulary;
+import dev.espalier.vocab.VocabularyTrie;
+
+import java.util.Arrays;
+
+/**
+ * A context-free constraint over a {@link SplitGrammar}: masks split into a lexical part decided
+ * once per lexical state and cached, and a syntactic part checked against the parser.
+ *
+ * <p>At any point the chart holds runs — terminals' DFAs in progress. A token is allowed when
+ * <ul>
+ *   <li>some run's DFA survives all of its bytes (the token stays inside one lexeme): the run's
+ *       <em>inside mask</em>, which depends on the terminal and DFA state alone and is cached per
+ *       class of states with the same viable strings up to the longest token; or</li>
+ *   <li>some run's DFA accepts after a proper prefix of it (the lexeme may end inside the token) and
+ *       the parser, with that lexeme ended, takes the rest: these <em>boundary</em> trie nodes depend
+ *       on the terminal and DFA state alone and are cached; only their subtrees are walked with the
+ *       parser.</li>
+ * </ul>
+ * Every token falls under one case or neither, so the mask is exact.
+ */
+final class SplitConstraint extends ChartConstraint {
+
+    final SplitGrammar grammar;
+    private final long maxItems;
+    private final int words;
+    /** Per terminal: inside-mask class of each DFA state, and the cache-key offsets. */
+    private final int[][] insideClass;
+    private final int[] insideOffset;
+    private final int[] boundaryOffset;
+    private final MaskCache cache;
+
+    SplitConstraint(SplitGrammar grammar, Vocabulary vocabulary, MaskSettings settings) {
+        super(vocabulary);
+        if (grammar.isEmptyLanguage()) {
+            throw new IllegalArgumentException("the grammar's language is empty: no output can satisfy it");
+        }
+        this.grammar = grammar;
+        this.maxItems = settings.parserItemLimit();
+        this.words = vocabulary.maskWords();
+        int terms = grammar.terminalCount();
+        insideClass = new int[terms][];
+        insideOffset = new int[terms];
+        boundaryOffset = new int[terms];
+        int keys = 0;
+        for (int t = 0; t < terms; t++) {
+            insideClass[t] = grammar.terminal(t).viableClasses(trie.maxDepth());
+            insideOffset[t] = keys;
+            keys += Arrays.stream(insideClass[t]).max().orElse(-1) + 1;
+        }
+        for (int t = 0; t < terms; t++) {
+            boundaryOffset[t] = keys;
+            keys += grammar.terminal(t).stateCount();
+        }
+        this.cache = new MaskCache(keys, settings.cacheBudgetBytes());
+    }
+
+    @Override
+    ByteChart newChart() {
+        return grammar.newChart(maxItems);
+    }
+
+    @Override
+    void fill(ByteChart chart, long[] mask) {
+        SplitChart c = (SplitChart) chart;
+        int n = c.runCount();
+        int[] term = new int[n];
+        int[] origin = new int[n];
+        int[] state = new int[n];
+        for (int k = 0; k < n; k++) {
+            term[k] = c.runTerminal(k);
+            origin[k] = c.runOrigin(k);
+            state[k] = c.runState(k);
+        }
+        for (int k = 0; k < n; k++) {
+            boolean seen = false;
+            for (int j = 0; j < k && !seen; j++) {
+                seen = term[j] == term[k] && insideClass[term[j]][state[j]] == insideClass[term[k]][state[k]];
+            }
+            if (!seen) {
+                long[] inside = inside(term[k], state[k]);
+                for (int w = 0; w < words; w++) {
+                    mask[w] |= inside[w];
+                }
+            }
+        }
+        for (int k = 0; k < n; k++) {
+            int[] nodes = boundary(term[k], state[k]);
+            if (nodes.length == 0) {
+                continue;
+            }
+            c.pushEnd(term[k], origin[k]);
+            try {
+                long[] first = new long[4];
+                c.expectedBytes(first);
+                for (int node : nodes) {
+                    walk(c, node, trie.skip(node), first, mask);
+                }
+            } finally {
+                c.undo(1);
+            }
+        }
+    }
+
+    /** Tokens that keep terminal {@code t}'s DFA alive from {@code q}. */
+    private long[] inside(int t, int q) {
+        int key = insideOffset[t] + insideClass[t][q];
+        long[] m = cache.get(key);
+        if (m == null) {
+            m = new long[words];
+            trie.collect(grammar.terminal(t)::step, q, m);
+            m = cache.put(key, m);
+        }
+        return m;
+    }
+
+    /**
+     * Trie nodes with children at which terminal {@code t}'s DFA, started in {@code q}, accepts: the
+     * lexeme may end there and the token go on.
+     */
+    private int[] boundary(int t, int q) {
+        int key = boundaryOffset[t] + q;
+        Object known = cache.getObject(key);
+        if (known != null) {
+            return (int[]) known;
+        }
+        ByteDfa dfa = grammar.terminal(t);
+        VocabularyTrie tr = trie;
+        int[] at = new int[tr.maxDepth() + 1];
+        at[0] = q;
+        int[] out = new int[16];
+        int count = 0;
+        int n = tr.nodeCount();
+        int i = 1;
+        while (i < n) {
+            int d = tr.depth(i);
+            int next = dfa.step(at[d - 1], tr.label(i));
+            if (next == ByteDfa.DEAD) {
+                i = tr.skip(i);
+                continue;
+            }
+            at[d] = next;
+            if (dfa.accepts(next) && tr.skip(i) > i + 1) {
+                if (count == out.length) {
+                    out = Arrays.copyOf(out, count * 2);
+                }
+                out[count++] = i;
+            }
+            i++;
+        }
+        return (int[]) cache.putObject(key, Arrays.copyOf(out, count));
+    }
+
+    @Override
+    public long cacheBytes() {
+        return cache.bytes();
+    }
+
+    @Override
+    public int cachedMasks() {
+        return cache.count();
+    }
+
+    @Override
+    public String describe() {
+        return "Earley skeleton of " + grammar.nonterminalCount() + " nonterminals over " + grammar.terminalCount()
+                + " lexical automata";
+    }
+}
