@@ -38,6 +38,10 @@ final class BenchCommand implements Callable<Integer> {
     @Option(names = "--regex", paramLabel = "PATTERN", description = "A pattern to measure (repeatable; default: the built-in set).")
     List<String> patterns;
 
+    @Option(names = "--grammar", paramLabel = "FILE",
+            description = "An ABNF grammar to measure instead of the patterns (repeatable).")
+    List<String> grammars;
+
     @Option(names = "--vocab", paramLabel = "NAME|PATH",
             description = "A vocabulary (repeatable; default: cl100k, o200k and Qwen3 when ../shared/vocab has it).")
     List<String> vocabs;
@@ -81,6 +85,9 @@ final class BenchCommand implements Callable<Integer> {
             for (int i = 0; i < patterns.size(); i++) {
                 pats.put("p" + (i + 1), patterns.get(i));
             }
+        }
+        if (grammars != null && !grammars.isEmpty()) {
+            return grammarBench(out);
         }
         List<String> vs = vocabs;
         if (vs == null || vs.isEmpty()) {
@@ -196,6 +203,125 @@ final class BenchCommand implements Callable<Integer> {
         return String.format("%-13s %-26s %7s %9.2f %12.1f %12.1f %9.2f %9.2f %9d %12.1f %9.0f", label,
                 shorten(v.name()), states, percentile(compile, 50), percentile(firstArr, 50), max(firstArr),
                 steadyMed, percentile(steady, 99), fresh.cacheBytes() / 1024, baseMed, baseMed * 1000 / steadyMed);
+    }
+
+    private List<String> vocabularies() {
+        List<String> vs = vocabs;
+        if (vs == null || vs.isEmpty()) {
+            vs = new ArrayList<>(List.of("cl100k", "o200k"));
+            for (String m : List.of("llama3", "qwen3")) {
+                Path p = Path.of("..", "shared", "vocab", m + "-tokenizer.json.gz");
+                if (Files.isRegularFile(p)) {
+                    vs.add(p.toString());
+                }
+            }
+        }
+        return vs;
+    }
+
+    private int grammarBench(PrintWriter out) {
+        out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "grammar", "vocabulary", "1st-mask", "median",
+                "p99", "max", "steps", "cache", "naive", "ratio");
+        out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "", "", "ms", "µs", "µs", "µs", "", "KiB",
+                "µs/mask", "×");
+        boolean warmedUp = false;
+        for (String vn : vocabularies()) {
+            long t0 = System.nanoTime();
+            Vocabulary v = VocabOptions.load(vn, null);
+            long t1 = System.nanoTime();
+            v.trie();
+            long t2 = System.nanoTime();
+            Progress.note(String.format("%s: %d tokens, loaded in %.0f ms, trie of %d nodes built in %.0f ms",
+                    v.name(), v.tokenCount(), (t1 - t0) / 1e6, v.trie().nodeCount(), (t2 - t1) / 1e6));
+            for (String file : grammars) {
+                dev.espalier.grammar.Grammar g = GrammarFiles.load(file, null, spec.commandLine().getErr());
+                if (!warmedUp) {
+                    Progress.note("warming up on " + v.name());
+                    for (String f : grammars) {
+                        grammarRow(f, GrammarFiles.load(f, null, spec.commandLine().getErr()), v, true);
+                    }
+                    warmedUp = true;
+                }
+                out.println(grammarRow(file, g, v, false));
+                out.flush();
+            }
+        }
+        return 0;
+    }
+
+    private String grammarRow(String file, dev.espalier.grammar.Grammar g, Vocabulary v, boolean warmUp) {
+        long[] mask = new long[v.maskWords()];
+        long a = System.nanoTime();
+        Constraint c = Constraint.grammar(g, v);
+        c.start().fillMask(mask);
+        double firstMs = (System.nanoTime() - a) / 1e6;
+        // masks along real constrained generations, caches filling as they go
+        Random rnd = new Random(seed);
+        List<Double> times = new ArrayList<>();
+        List<byte[]> prefixes = new ArrayList<>();
+        for (int gen = 0; gen < generations; gen++) {
+            Cursor cur = c.start();
+            ByteArrayOutputStream text = new ByteArrayOutputStream();
+            for (int step = 0; step < 200 && !cur.isFinished(); step++) {
+                long s0 = System.nanoTime();
+                cur.fillMask(mask);
+                times.add((System.nanoTime() - s0) / 1e3);
+                prefixes.add(text.toByteArray());
+                int count = dev.espalier.mask.TokenBits.count(mask);
+                if (count == 0) {
+                    break;
+                }
+                int eos = v.endOfSequence();
+                int pick = eos >= 0 && dev.espalier.mask.TokenBits.get(mask, eos) && rnd.nextDouble() < 0.05 ? eos
+                        : nthSet(mask, rnd.nextInt(count));
+                cur.feed(pick);
+                if (pick != eos) {
+                    text.writeBytes(v.bytes(pick));
+                }
+            }
+        }
+        double[] t = times.stream().mapToDouble(Double::doubleValue).toArray();
+        if (warmUp) {
+            return "";
+        }
+        // the naive method: every token checked separately against a byte-level Earley chart
+        dev.espalier.earley.EarleyGrammar eg = dev.espalier.earley.EarleyGrammar.compile(g);
+        double[] naive = new double[Math.min(baselineMasks, prefixes.size())];
+        for (int i = 0; i < naive.length; i++) {
+            byte[] prefix = prefixes.get(i * prefixes.size() / naive.length);
+            dev.espalier.earley.EarleyChart chart = eg.newChart();
+            chart.feedAll(prefix);
+            long n0 = System.nanoTime();
+            for (int id = 0; id < v.size(); id++) {
+                if (!v.has(id) || v.isSpecial(id)) {
+                    continue;
+                }
+                byte[] tok = v.bytes(id);
+                int fed = chart.feedAll(tok);
+                chart.undo(fed);
+            }
+            naive[i] = (System.nanoTime() - n0) / 1e3;
+        }
+        double med = percentile(t, 50);
+        double naiveMed = percentile(naive, 50);
+        String name = Path.of(file).getFileName().toString();
+        return String.format("%-22s %-26s %10.2f %9.1f %9.1f %9.1f %9d %9d %12.0f %9.0f", name, shorten(v.name()),
+                firstMs, med, percentile(t, 99), max(t), t.length, c.cacheBytes() / 1024, naiveMed, naiveMed / med);
+    }
+
+    private static int nthSet(long[] mask, int k) {
+        for (int w = 0; w < mask.length; w++) {
+            int c = Long.bitCount(mask[w]);
+            if (k < c) {
+                long word = mask[w];
+                for (int i = 0; i < k; i++) {
+                    word &= word - 1;
+                }
+                return (w << 6) + Long.numberOfTrailingZeros(word);
+            }
+            k -= c;
+        }
+        throw new IllegalStateException();
     }
 
     /** What one would write without Espalier: test every token with the JDK's regex engine. */
