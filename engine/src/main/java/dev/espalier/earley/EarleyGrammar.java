@@ -93,7 +93,7 @@ public final class EarleyGrammar {
         this.startNt = l.augmented;
 
         // keep productive productions only
-        boolean[] productive = fixpoint(l, false);
+        boolean[] productive = productive(l);
         List<int[]> kept = new ArrayList<>();
         for (int[] p : l.prods) {
             if (p.length > 0 && allProductive(p, productive)) {
@@ -332,10 +332,10 @@ public final class EarleyGrammar {
     }
 
     /**
-     * Productive nonterminals (terminalsCount = true: every non-empty terminal counts as done) or,
-     * reused for nullable with {@code nullableMode}, by the usual work-list fixpoint.
+     * Productive nonterminals (those deriving some byte string; empty byte sets derive none), by the
+     * usual work-list fixpoint over symbol occurrences.
      */
-    private static boolean[] fixpoint(Lowering l, boolean nullableMode) {
+    private static boolean[] productive(Lowering l) {
         int n = l.ntNames.size();
         boolean[] done = new boolean[n];
         int pc = l.prods.size();
@@ -364,7 +364,7 @@ public final class EarleyGrammar {
                 if (s >= 0) {
                     remaining[i]++;
                     occ[fill[s]++] = i;
-                } else if (nullableMode || isEmptyTerm(l.terms.get(-s - 1))) {
+                } else if (isEmptyTerm(l.terms.get(-s - 1))) {
                     dead[i] = true;
                 }
             }
