@@ -34,6 +34,7 @@ public final class ByteDfa {
     private final int[] table;
     private final boolean[] accepting;
     private final int[] forcedByte;
+    private final boolean[] hasNext;
 
     private ByteDfa(int start, byte[] classOf, int classCount, int[] table, boolean[] accepting) {
         this.start = start;
@@ -43,7 +44,11 @@ public final class ByteDfa {
         this.accepting = accepting;
         int n = accepting.length;
         this.forcedByte = new int[n];
+        this.hasNext = new boolean[n];
         for (int s = 0; s < n; s++) {
+            for (int c = 0; c < classCount && !hasNext[s]; c++) {
+                hasNext[s] = table[s * classCount + c] != DEAD;
+            }
             int only = -1;
             int count = 0;
             for (int b = 0; b < 256 && count < 2; b++) {
@@ -93,6 +98,11 @@ public final class ByteDfa {
     /** The equivalence class of byte {@code b}: bytes of one class behave alike in every state. */
     public int classOf(int b) {
         return classOf[b & 0xFF] & 0xFF;
+    }
+
+    /** Whether some byte leads from {@code state} to a live state. */
+    public boolean canContinue(int state) {
+        return hasNext[state];
     }
 
     /** Whether {@code state} is accepting. */

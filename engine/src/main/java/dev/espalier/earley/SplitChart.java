@@ -112,7 +112,12 @@ public final class SplitChart implements ByteChart {
     /** Whether some byte can follow. */
     @Override
     public boolean canContinue() {
-        return runs > setRun[top];
+        for (int r = setRun[top]; r < runs; r++) {
+            if (g.terminals[runTerm[r]].canContinue(runState[r])) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** Number of runs in the top set. */

@@ -174,12 +174,7 @@ final class DfaCursor implements Cursor {
         if (state == FINISHED) {
             return false;
         }
-        for (int b = 0; b < 256; b++) {
-            if (c.dfa.step(state, b) != ByteDfa.DEAD) {
-                return true;
-            }
-        }
-        return false;
+        return c.dfa.canContinue(state);
     }
 
     @Override
