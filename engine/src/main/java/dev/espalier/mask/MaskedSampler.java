@@ -53,7 +53,7 @@ public final class MaskedSampler {
                 break;
             }
             int pick = eos >= 0 && endChance > 0 && TokenBits.get(mask, eos) && random.nextDouble() < endChance
-                    ? eos : nth(mask, random.nextInt(count));
+                    ? eos : TokenBits.nth(mask, random.nextInt(count));
             if (n == tokens.length) {
                 tokens = java.util.Arrays.copyOf(tokens, tokens.length * 2);
             }
@@ -68,19 +68,4 @@ public final class MaskedSampler {
         return new Sample(out.toByteArray(), java.util.Arrays.copyOf(tokens, n), complete);
     }
 
-    /** The index of the {@code k}-th set bit (0-based). */
-    static int nth(long[] mask, int k) {
-        for (int w = 0; w < mask.length; w++) {
-            int c = Long.bitCount(mask[w]);
-            if (k < c) {
-                long word = mask[w];
-                for (int i = 0; i < k; i++) {
-                    word &= word - 1;
-                }
-                return (w << 6) + Long.numberOfTrailingZeros(word);
-            }
-            k -= c;
-        }
-        throw new IllegalArgumentException("mask has fewer set bits");
-    }
 }

@@ -66,4 +66,20 @@ public final class TokenBits {
             word = mask[w];
         }
     }
+
+    /** The {@code k}-th set bit (0-based), in ascending order. */
+    public static int nth(long[] mask, int k) {
+        for (int w = 0; w < mask.length; w++) {
+            int c = Long.bitCount(mask[w]);
+            if (k < c) {
+                long word = mask[w];
+                for (int i = 0; i < k; i++) {
+                    word &= word - 1;
+                }
+                return (w << 6) + Long.numberOfTrailingZeros(word);
+            }
+            k -= c;
+        }
+        throw new IllegalArgumentException("the mask has fewer than " + (k + 1) + " set bits");
+    }
 }

@@ -273,7 +273,7 @@ final class BenchCommand implements Callable<Integer> {
                 }
                 int eos = v.endOfSequence();
                 int pick = eos >= 0 && dev.espalier.mask.TokenBits.get(mask, eos) && rnd.nextDouble() < 0.05 ? eos
-                        : nthSet(mask, rnd.nextInt(count));
+                        : dev.espalier.mask.TokenBits.nth(mask, rnd.nextInt(count));
                 cur.feed(pick);
                 if (pick != eos) {
                     text.writeBytes(v.bytes(pick));
@@ -309,20 +309,6 @@ final class BenchCommand implements Callable<Integer> {
                 firstMs, med, percentile(t, 99), max(t), t.length, c.cacheBytes() / 1024, naiveMed, naiveMed / med);
     }
 
-    private static int nthSet(long[] mask, int k) {
-        for (int w = 0; w < mask.length; w++) {
-            int c = Long.bitCount(mask[w]);
-            if (k < c) {
-                long word = mask[w];
-                for (int i = 0; i < k; i++) {
-                    word &= word - 1;
-                }
-                return (w << 6) + Long.numberOfTrailingZeros(word);
-            }
-            k -= c;
-        }
-        throw new IllegalStateException();
-    }
 
     /** What one would write without Espalier: test every token with the JDK's regex engine. */
     static void baselineMask(Pattern p, String prefix, Vocabulary v, long[] mask) {
