@@ -208,7 +208,7 @@ class GrammarMaskDifferentialTest {
                     if (count == 0 || (count == 1 && eos >= 0 && TokenBits.get(m, eos))) {
                         break;
                     }
-                    int pick = MaskedSampler.nth(m, rnd.nextInt(count));
+                    int pick = TokenBits.nth(m, rnd.nextInt(count));
                     cursor.feed(pick);
                     detour++;
                 }
