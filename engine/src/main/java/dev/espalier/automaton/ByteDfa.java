@@ -297,6 +297,27 @@ public final class ByteDfa {
 
     /** Subset construction with a state limit, then trimming and Hopcroft minimisation (via brics). */
     static ByteDfa determinize(ByteNfa nfa, int stateLimit) {
+        // byte classes: bytes no edge boundary separates behave alike in every subset
+        boolean[] cut = new boolean[257];
+        cut[0] = true;
+        cut[256] = true;
+        for (int node = 0; node < nfa.size(); node++) {
+            int[] e = nfa.edges.get(node);
+            for (int k = 0, c = nfa.edgeCounts.get(node); k < c; k++) {
+                cut[e[3 * k]] = true;
+                cut[e[3 * k + 1] + 1] = true;
+            }
+        }
+        int[] classOf = new int[256];
+        int[] classLo = new int[257];
+        int classes = 0;
+        for (int b = 0; b < 256; b++) {
+            if (cut[b]) {
+                classLo[classes++] = b;
+            }
+            classOf[b] = classes - 1;
+        }
+        classLo[classes] = 256;
         Map<IntSet, Integer> index = new HashMap<>();
         List<int[]> sets = new ArrayList<>();
         List<int[]> rows = new ArrayList<>();
@@ -305,8 +326,8 @@ public final class ByteDfa {
         sets.add(startSet);
         ArrayDeque<Integer> work = new ArrayDeque<>();
         work.add(0);
-        int[][] buckets = new int[256][];
-        int[] bucketSize = new int[256];
+        int[][] buckets = new int[classes][];
+        int[] bucketSize = new int[classes];
         while (!work.isEmpty()) {
             int d = work.poll();
             int[] members = sets.get(d);
@@ -315,26 +336,24 @@ public final class ByteDfa {
                 int[] e = nfa.edges.get(node);
                 int c = nfa.edgeCounts.get(node);
                 for (int k = 0; k < c; k++) {
-                    int lo = e[3 * k];
-                    int hi = e[3 * k + 1];
                     int to = e[3 * k + 2];
-                    for (int b = lo; b <= hi; b++) {
-                        if (buckets[b] == null) {
-                            buckets[b] = new int[4];
-                        } else if (bucketSize[b] == buckets[b].length) {
-                            buckets[b] = Arrays.copyOf(buckets[b], bucketSize[b] * 2);
+                    for (int cl = classOf[e[3 * k]], last = classOf[e[3 * k + 1]]; cl <= last; cl++) {
+                        if (buckets[cl] == null) {
+                            buckets[cl] = new int[4];
+                        } else if (bucketSize[cl] == buckets[cl].length) {
+                            buckets[cl] = Arrays.copyOf(buckets[cl], bucketSize[cl] * 2);
                         }
-                        buckets[b][bucketSize[b]++] = to;
+                        buckets[cl][bucketSize[cl]++] = to;
                     }
                 }
             }
             int[] row = new int[256];
             Arrays.fill(row, DEAD);
-            for (int b = 0; b < 256; b++) {
-                if (bucketSize[b] == 0) {
+            for (int cl = 0; cl < classes; cl++) {
+                if (bucketSize[cl] == 0) {
                     continue;
                 }
-                int[] target = Arrays.copyOf(buckets[b], bucketSize[b]);
+                int[] target = Arrays.copyOf(buckets[cl], bucketSize[cl]);
                 Arrays.sort(target);
                 int m = 0;
                 for (int i = 0; i < target.length; i++) {
@@ -354,7 +373,7 @@ public final class ByteDfa {
                     sets.add(key.values);
                     work.add(id);
                 }
-                row[b] = id;
+                Arrays.fill(row, classLo[cl], classLo[cl + 1], id);
             }
             while (rows.size() <= d) {
                 rows.add(null);

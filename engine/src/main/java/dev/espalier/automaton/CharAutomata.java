@@ -55,7 +55,10 @@ public final class CharAutomata {
     private final Map<String, Automaton> finished = new HashMap<>();
     private final Set<String> active = new HashSet<>();
 
-    private CharAutomata(Function<String, Expr> rules, int limit) {
+    private final boolean minimizing;
+
+    private CharAutomata(Function<String, Expr> rules, int limit, boolean minimizing) {
+        this.minimizing = minimizing;
         this.rules = rules;
         this.limit = limit;
         this.nfaLimit = (int) Math.min(Integer.MAX_VALUE, (long) NFA_FACTOR * limit);
@@ -83,7 +86,23 @@ public final class CharAutomata {
         if (stateLimit < 1) {
             throw new IllegalArgumentException("the state limit must be positive: " + stateLimit);
         }
-        Automaton a = new CharAutomata(rules, stateLimit).build(expr);
+        Automaton a = new CharAutomata(rules, stateLimit, true).build(expr);
+        a.expandSingleton();
+        return a;
+    }
+
+    /**
+     * As {@link #compile}, but without minimising: intermediate automata are determinised (bounded)
+     * only when large, and the result may be nondeterministic. For callers that determinise and
+     * minimise the result themselves, such as {@link ByteDfa#fromCharAutomaton}, which minimises over
+     * byte classes far faster than minimisation over Java's 65,536 chars.
+     */
+    public static Automaton compileUnminimized(Expr expr, Function<String, Expr> rules, int stateLimit) {
+        Objects.requireNonNull(expr, "expr");
+        if (stateLimit < 1) {
+            throw new IllegalArgumentException("the state limit must be positive: " + stateLimit);
+        }
+        Automaton a = new CharAutomata(rules, stateLimit, false).build(expr);
         a.expandSingleton();
         return a;
     }
@@ -267,6 +286,9 @@ public final class CharAutomata {
     /** Determinise (bounded) and minimise a freshly built automaton. */
     private Automaton settle(Automaton a) {
         int n = a.getNumberOfStates();
+        if (!minimizing && n <= limit) {
+            return a; // the caller determinises and minimises the whole automaton once
+        }
         if (a.isDeterministic()) {
             if (n > limit) {
                 throw new AutomatonTooLargeException(limit);

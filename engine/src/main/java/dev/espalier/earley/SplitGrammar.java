@@ -390,7 +390,7 @@ public final class SplitGrammar {
             if (known != null) {
                 return known;
             }
-            Automaton a = CharAutomata.compile(fragment, rules, stateLimit);
+            Automaton a = CharAutomata.compileUnminimized(fragment, rules, stateLimit);
             boolean nullable = a.run("");
             int symbol;
             if (nullable) {

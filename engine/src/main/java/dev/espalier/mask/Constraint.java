@@ -56,7 +56,7 @@ public interface Constraint {
     /** As {@link #regex(String, Vocabulary)}, with explicit settings. */
     static Constraint regex(String pattern, Vocabulary vocabulary, MaskSettings settings) {
         Expr expr = RegexSyntax.parse(pattern);
-        ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compile(expr, null, settings.stateLimit()),
+        ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(expr, null, settings.stateLimit()),
                 settings.stateLimit());
         if (dfa.isEmpty()) {
             throw new IllegalArgumentException("no string matches the pattern: its language is empty");
@@ -83,7 +83,7 @@ public interface Constraint {
         }
         if (!GrammarShape.reachesRecursion(grammar)) {
             try {
-                ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compile(Expr.ref(grammar.start()),
+                ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(Expr.ref(grammar.start()),
                         name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit()),
                         settings.stateLimit());
                 if (dfa.isEmpty()) {
