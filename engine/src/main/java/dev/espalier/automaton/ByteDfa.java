@@ -476,32 +476,8 @@ public final class ByteDfa {
                 delta[renum[i] * classes + c] = to == DEAD ? DEAD : renum[to];
             }
         }
-        // Moore refinement
-        int[] block = new int[m];
-        int blocks = 0;
-        for (int i = 0; i < m; i++) {
-            block[i] = accepting[i] ? 1 : 0;
-        }
-        blocks = countDistinct(block);
-        while (true) {
-            Map<IntSet, Integer> sig = new HashMap<>();
-            int[] next = new int[m];
-            for (int i = 0; i < m; i++) {
-                int[] key = new int[classes + 1];
-                key[0] = block[i];
-                for (int c = 0; c < classes; c++) {
-                    int to = delta[i * classes + c];
-                    key[c + 1] = to == DEAD ? DEAD : block[to];
-                }
-                int size = sig.size();
-                next[i] = sig.computeIfAbsent(new IntSet(key), k -> size);
-            }
-            block = next;
-            if (sig.size() == blocks) {
-                break;
-            }
-            blocks = sig.size();
-        }
+        int[] block = hopcroft(m, classes, delta, accepting);
+        int blocks = Arrays.stream(block).max().orElse(-1) + 1;
         // renumber blocks so the start state is 0 and the rest follow first appearance
         int[] order = new int[blocks];
         java.util.Arrays.fill(order, -1);
@@ -525,8 +501,184 @@ public final class ByteDfa {
         return new ByteDfa(0, classOf, classes, table, acceptingMin);
     }
 
-    private static int countDistinct(int[] xs) {
-        return (int) java.util.Arrays.stream(xs).distinct().count();
+    /**
+     * Hopcroft's partition refinement: the coarsest partition of the (trimmed) states compatible
+     * with acceptance and the transitions, in O(n k log n) for n states and k byte classes. A sink
+     * state stands for {@link #DEAD}; no live state can share its block.
+     *
+     * @return the block of each state, numbered from 0 in order of first appearance
+     */
+    static int[] hopcroft(int m, int classes, int[] delta, boolean[] accepting) {
+        int n = m + 1;
+        int sink = m;
+        // predecessors per (class, target), compressed rows
+        int[] predStart = new int[classes * n + 1];
+        for (int st = 0; st < n; st++) {
+            for (int c = 0; c < classes; c++) {
+                int to = st == sink ? sink : delta[st * classes + c];
+                predStart[c * n + (to == DEAD ? sink : to) + 1]++;
+            }
+        }
+        for (int i = 0; i < classes * n; i++) {
+            predStart[i + 1] += predStart[i];
+        }
+        int[] pred = new int[predStart[classes * n]];
+        int[] fill = Arrays.copyOf(predStart, predStart.length);
+        for (int st = 0; st < n; st++) {
+            for (int c = 0; c < classes; c++) {
+                int to = st == sink ? sink : delta[st * classes + c];
+                pred[fill[c * n + (to == DEAD ? sink : to)]++] = st;
+            }
+        }
+        // the partition: elems ordered by block; each block a range [start, end)
+        int[] elems = new int[n];
+        int[] pos = new int[n];
+        int[] blockOf = new int[n];
+        int[] bStart = new int[n + 1];
+        int[] bEnd = new int[n + 1];
+        int[] marked = new int[n + 1];
+        int k = 0;
+        for (int st = 0; st < m; st++) {
+            if (accepting[st]) {
+                elems[k] = st;
+                pos[st] = k++;
+            }
+        }
+        int acceptEnd = k;
+        for (int st = 0; st < n; st++) {
+            if (st == sink || !accepting[st]) {
+                elems[k] = st;
+                pos[st] = k++;
+            }
+        }
+        int blocks;
+        if (acceptEnd == 0) {
+            blocks = 1;
+            bStart[0] = 0;
+            bEnd[0] = n;
+        } else {
+            blocks = 2;
+            bStart[0] = 0;
+            bEnd[0] = acceptEnd;
+            bStart[1] = acceptEnd;
+            bEnd[1] = n;
+            for (int i = acceptEnd; i < n; i++) {
+                blockOf[elems[i]] = 1;
+            }
+        }
+        boolean[] inWork = new boolean[(n + 1) * classes];
+        int[] work = new int[16];
+        int workSize = 0;
+        int first = blocks == 1 ? 0 : (bEnd[0] - bStart[0] <= bEnd[1] - bStart[1] ? 0 : 1);
+        for (int c = 0; c < classes; c++) {
+            if (workSize == work.length) {
+                work = Arrays.copyOf(work, work.length * 2);
+            }
+            work[workSize++] = first * classes + c;
+            inWork[first * classes + c] = true;
+        }
+        int[] members = new int[n];
+        int[] touched = new int[n + 1];
+        while (workSize > 0) {
+            int item = work[--workSize];
+            inWork[item] = false;
+            int a = item / classes;
+            int c = item % classes;
+            int size = bEnd[a] - bStart[a];
+            System.arraycopy(elems, bStart[a], members, 0, size);
+            int touchedCount = 0;
+            for (int i = 0; i < size; i++) {
+                int t = members[i];
+                for (int p = predStart[c * n + t], end = predStart[c * n + t + 1]; p < end; p++) {
+                    int st = pred[p];
+                    int b = blockOf[st];
+                    int first0 = bStart[b] + marked[b];
+                    if (pos[st] < first0) {
+                        continue; // already marked
+                    }
+                    int other = elems[first0];
+                    elems[first0] = st;
+                    elems[pos[st]] = other;
+                    pos[other] = pos[st];
+                    pos[st] = first0;
+                    if (marked[b]++ == 0) {
+                        touched[touchedCount++] = b;
+                    }
+                }
+            }
+            for (int i = 0; i < touchedCount; i++) {
+                int b = touched[i];
+                int mk = marked[b];
+                marked[b] = 0;
+                if (mk == bEnd[b] - bStart[b]) {
+                    continue;
+                }
+                int nb = blocks++;
+                bStart[nb] = bStart[b];
+                bEnd[nb] = bStart[b] + mk;
+                bStart[b] = bEnd[nb];
+                for (int j = bStart[nb]; j < bEnd[nb]; j++) {
+                    blockOf[elems[j]] = nb;
+                }
+                boolean smallerIsNew = bEnd[nb] - bStart[nb] <= bEnd[b] - bStart[b];
+                for (int cc = 0; cc < classes; cc++) {
+                    int add;
+                    if (inWork[b * classes + cc]) {
+                        add = nb * classes + cc;
+                    } else {
+                        add = (smallerIsNew ? nb : b) * classes + cc;
+                    }
+                    if (!inWork[add]) {
+                        if (workSize == work.length) {
+                            work = Arrays.copyOf(work, work.length * 2);
+                        }
+                        work[workSize++] = add;
+                        inWork[add] = true;
+                    }
+                }
+            }
+        }
+        // number the blocks of the real states in order of first appearance
+        int[] number = new int[blocks];
+        Arrays.fill(number, -1);
+        int[] out = new int[m];
+        int next = 0;
+        for (int st = 0; st < m; st++) {
+            int b = blockOf[st];
+            if (number[b] < 0) {
+                number[b] = next++;
+            }
+            out[st] = number[b];
+        }
+        return out;
+    }
+
+    /** Moore's refinement, the slow twin of {@link #hopcroft}: rounds until the partition is stable. */
+    static int[] moore(int m, int classes, int[] delta, boolean[] accepting) {
+        int[] block = new int[m];
+        for (int i = 0; i < m; i++) {
+            block[i] = accepting[i] ? 1 : 0;
+        }
+        int blocks = (int) Arrays.stream(block).distinct().count();
+        while (true) {
+            Map<IntSet, Integer> sig = new HashMap<>();
+            int[] next = new int[m];
+            for (int i = 0; i < m; i++) {
+                int[] key = new int[classes + 1];
+                key[0] = block[i];
+                for (int c = 0; c < classes; c++) {
+                    int to = delta[i * classes + c];
+                    key[c + 1] = to == DEAD ? DEAD : block[to];
+                }
+                int size = sig.size();
+                next[i] = sig.computeIfAbsent(new IntSet(key), x -> size);
+            }
+            block = next;
+            if (sig.size() == blocks) {
+                return block;
+            }
+            blocks = sig.size();
+        }
     }
 
     /** An int array with value equality, for hashing state sets and columns. */

@@ -170,4 +170,30 @@ class ByteDfaTest {
         }
         return sb.toString();
     }
+
+    @Test
+    void hopcroftAndMooreFindTheSamePartition() {
+        // the fast minimisation against its slow, obviously correct twin, on random automata
+        Random rnd = new Random(17);
+        for (int trial = 0; trial < 2000; trial++) {
+            int m = 1 + rnd.nextInt(60);
+            int classes = 1 + rnd.nextInt(5);
+            int[] delta = new int[m * classes];
+            boolean[] accepting = new boolean[m];
+            for (int i = 0; i < delta.length; i++) {
+                delta[i] = rnd.nextInt(4) == 0 ? ByteDfa.DEAD : rnd.nextInt(m);
+            }
+            for (int i = 0; i < m; i++) {
+                accepting[i] = rnd.nextInt(3) == 0;
+            }
+            // trimmed, as minimisation receives them: a forward edge from every state to the last,
+            // accepting one, so every state can reach acceptance
+            accepting[m - 1] = true;
+            for (int i = 0; i < m - 1; i++) {
+                delta[i * classes] = i + 1 + rnd.nextInt(m - 1 - i);
+            }
+            assertEquals(java.util.Arrays.toString(ByteDfa.moore(m, classes, delta, accepting)),
+                    java.util.Arrays.toString(ByteDfa.hopcroft(m, classes, delta, accepting)), "trial " + trial);
+        }
+    }
 }
