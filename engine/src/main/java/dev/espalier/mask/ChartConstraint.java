@@ -25,6 +25,13 @@ abstract class ChartConstraint implements Constraint {
         return new ChartCursor(this, newChart());
     }
 
+    private static final ThreadLocal<long[]> EXPECTED = ThreadLocal.withInitial(() -> new long[4]);
+
+    /** A per-thread four-word byte set, so that filling a mask does not allocate. */
+    static long[] expectedScratch() {
+        return EXPECTED.get();
+    }
+
     /** A chart at the start of the input. */
     abstract ByteChart newChart();
 

@@ -31,7 +31,7 @@ final class EarleyConstraint extends ChartConstraint {
 
     @Override
     void fill(ByteChart chart, long[] mask) {
-        long[] first = new long[4];
+        long[] first = expectedScratch();
         chart.expectedBytes(first);
         walk(chart, 0, trie.nodeCount(), first, mask);
     }

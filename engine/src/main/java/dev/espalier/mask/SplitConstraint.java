@@ -70,34 +70,30 @@ final class SplitConstraint extends ChartConstraint {
     void fill(ByteChart chart, long[] mask) {
         SplitChart c = (SplitChart) chart;
         int n = c.runCount();
-        int[] term = new int[n];
-        int[] origin = new int[n];
-        int[] state = new int[n];
         for (int k = 0; k < n; k++) {
-            term[k] = c.runTerminal(k);
-            origin[k] = c.runOrigin(k);
-            state[k] = c.runState(k);
-        }
-        for (int k = 0; k < n; k++) {
+            int t = c.runTerminal(k);
+            int cls = insideClass[t][c.runState(k)];
             boolean seen = false;
             for (int j = 0; j < k && !seen; j++) {
-                seen = term[j] == term[k] && insideClass[term[j]][state[j]] == insideClass[term[k]][state[k]];
+                seen = c.runTerminal(j) == t && insideClass[t][c.runState(j)] == cls;
             }
             if (!seen) {
-                long[] inside = inside(term[k], state[k]);
+                long[] inside = inside(t, c.runState(k));
                 for (int w = 0; w < words; w++) {
                     mask[w] |= inside[w];
                 }
             }
         }
+        long[] first = expectedScratch();
         for (int k = 0; k < n; k++) {
-            int[] nodes = boundary(term[k], state[k]);
+            // read before pushEnd: the run accessors describe the top set, restored by undo(1)
+            int t = c.runTerminal(k);
+            int[] nodes = boundary(t, c.runState(k));
             if (nodes.length == 0) {
                 continue;
             }
-            c.pushEnd(term[k], origin[k]);
+            c.pushEnd(t, c.runOrigin(k));
             try {
-                long[] first = new long[4];
                 c.expectedBytes(first);
                 for (int node : nodes) {
                     walk(c, node, trie.skip(node), first, mask);
