@@ -145,13 +145,12 @@ public final class SplitChart implements ByteChart {
     public void expectedBytes(long[] out) {
         out[0] = out[1] = out[2] = out[3] = 0;
         for (int r = setRun[top]; r < runs; r++) {
-            ByteDfa d = g.terminals[runTerm[r]];
-            int q = runState[r];
-            for (int b = 0; b < 256; b++) {
-                if (d.step(q, b) != ByteDfa.DEAD) {
-                    out[b >>> 6] |= 1L << b;
-                }
-            }
+            long[] live = g.liveBytes(runTerm[r]);
+            int q = 4 * runState[r];
+            out[0] |= live[q];
+            out[1] |= live[q + 1];
+            out[2] |= live[q + 2];
+            out[3] |= live[q + 3];
         }
     }
 
@@ -204,6 +203,29 @@ public final class SplitChart implements ByteChart {
         begin(ns);
         try {
             scan(terminal, origin);
+            close(ns);
+        } catch (EarleyLimitException e) {
+            truncate(s);
+            throw e;
+        }
+        setBytes[ns] = setBytes[s];
+        top = ns;
+    }
+
+    /**
+     * As {@link #pushEnd(int, int)} for several origins at once: one set in which terminal
+     * {@code terminal} has just ended after each of {@code origins[0..n)}. The set is the union of the
+     * sets {@code pushEnd} would push for each origin alone, so a string is accepted after it exactly
+     * when it is accepted after one of them.
+     */
+    public void pushEnds(int terminal, int[] origins, int n) {
+        int s = top;
+        int ns = s + 1;
+        begin(ns);
+        try {
+            for (int i = 0; i < n; i++) {
+                scan(terminal, origins[i]);
+            }
             close(ns);
         } catch (EarleyLimitException e) {
             truncate(s);

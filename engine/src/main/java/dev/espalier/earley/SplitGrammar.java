@@ -59,9 +59,11 @@ public final class SplitGrammar {
     final int startNt;
     final int acceptPos;
     private final boolean empty;
+    private final java.util.concurrent.atomic.AtomicReferenceArray<long[]> live;
 
     private SplitGrammar(Lowering l) {
         this.terminals = l.dfas.toArray(new ByteDfa[0]);
+        this.live = new java.util.concurrent.atomic.AtomicReferenceArray<>(terminals.length);
         this.ntCount = l.ntNames.size();
         this.ntName = l.ntNames.toArray(new String[0]);
         this.startNt = l.augmented;
@@ -183,6 +185,27 @@ public final class SplitGrammar {
     /** The byte DFA of terminal {@code t}. */
     public ByteDfa terminal(int t) {
         return terminals[t];
+    }
+
+    /**
+     * Per terminal, the bytes that leave each DFA state alive: four words per state (bit b of word
+     * {@code 4*state + b/64}), built on first use.
+     */
+    long[] liveBytes(int t) {
+        long[] l = live.get(t);
+        if (l == null) {
+            ByteDfa d = terminals[t];
+            l = new long[4 * d.stateCount()];
+            for (int q = 0; q < d.stateCount(); q++) {
+                for (int b = 0; b < 256; b++) {
+                    if (d.step(q, b) != ByteDfa.DEAD) {
+                        l[4 * q + (b >>> 6)] |= 1L << b;
+                    }
+                }
+            }
+            live.compareAndSet(t, null, l);
+        }
+        return l;
     }
 
     /** Number of skeleton nonterminals (helpers and the added start included). */

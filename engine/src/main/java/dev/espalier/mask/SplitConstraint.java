@@ -35,6 +35,8 @@ final class SplitConstraint extends ChartConstraint {
     private final int[] insideOffset;
     private final int[] boundaryOffset;
     private final MaskCache cache;
+    /** The mask of the initial chart, once computed (a benign race: any thread computes the same). */
+    private volatile long[] startMask;
 
     SplitConstraint(SplitGrammar grammar, Vocabulary vocabulary, MaskSettings settings) {
         super(vocabulary);
@@ -69,6 +71,21 @@ final class SplitConstraint extends ChartConstraint {
     @Override
     void fill(ByteChart chart, long[] mask) {
         SplitChart c = (SplitChart) chart;
+        if (c.depth() == 0) {
+            // every chart at depth 0 is the initial chart: its mask is computed once
+            long[] m = startMask;
+            if (m == null) {
+                m = new long[words];
+                fillFrom(c, m);
+                startMask = m;
+            }
+            System.arraycopy(m, 0, mask, 0, words);
+            return;
+        }
+        fillFrom(c, mask);
+    }
+
+    private void fillFrom(SplitChart c, long[] mask) {
         int n = c.runCount();
         for (int k = 0; k < n; k++) {
             int t = c.runTerminal(k);
@@ -85,14 +102,30 @@ final class SplitConstraint extends ChartConstraint {
             }
         }
         long[] first = expectedScratch();
+        int[] origins = originScratch(n);
         for (int k = 0; k < n; k++) {
-            // read before pushEnd: the run accessors describe the top set, restored by undo(1)
+            // read before pushEnds: the run accessors describe the top set, restored by undo(1)
             int t = c.runTerminal(k);
-            int[] nodes = boundary(t, c.runState(k));
+            int q = c.runState(k);
+            boolean seen = false;
+            for (int j = 0; j < k && !seen; j++) {
+                seen = c.runTerminal(j) == t && c.runState(j) == q;
+            }
+            if (seen) {
+                continue;
+            }
+            int[] nodes = boundary(t, q);
             if (nodes.length == 0) {
                 continue;
             }
-            c.pushEnd(t, c.runOrigin(k));
+            // runs of one terminal in one DFA state share their boundary nodes: one walk serves them all
+            int m = 0;
+            for (int j = k; j < n; j++) {
+                if (c.runTerminal(j) == t && c.runState(j) == q) {
+                    origins[m++] = c.runOrigin(j);
+                }
+            }
+            c.pushEnds(t, origins, m);
             try {
                 c.expectedBytes(first);
                 for (int node : nodes) {
@@ -104,13 +137,26 @@ final class SplitConstraint extends ChartConstraint {
         }
     }
 
+    private static final ThreadLocal<int[][]> ORIGINS = ThreadLocal.withInitial(() -> new int[1][64]);
+
+    private static int[] originScratch(int n) {
+        int[][] holder = ORIGINS.get();
+        if (holder[0].length < n) {
+            holder[0] = new int[Math.max(n, holder[0].length * 2)];
+        }
+        return holder[0];
+    }
+
     /** Tokens that keep terminal {@code t}'s DFA alive from {@code q}. */
     private long[] inside(int t, int q) {
         int key = insideOffset[t] + insideClass[t][q];
         long[] m = cache.get(key);
         if (m == null) {
             m = new long[words];
-            trie.collect(grammar.terminal(t)::step, q, m);
+            int[] nodes = lexicalWalk(t, q, m);
+            if (cache.getObject(boundaryOffset[t] + q) == null) {
+                cache.putObject(boundaryOffset[t] + q, nodes);
+            }
             m = cache.put(key, m);
         }
         return m;
@@ -126,6 +172,21 @@ final class SplitConstraint extends ChartConstraint {
         if (known != null) {
             return (int[]) known;
         }
+        // one walk yields the inside mask too, when it is not cached yet
+        int insideKey = insideOffset[t] + insideClass[t][q];
+        long[] m = cache.get(insideKey) == null ? new long[words] : null;
+        int[] nodes = lexicalWalk(t, q, m);
+        if (m != null) {
+            cache.put(insideKey, m);
+        }
+        return (int[]) cache.putObject(key, nodes);
+    }
+
+    /**
+     * Walks the trie from DFA state {@code q} of terminal {@code t}, pruning at dead bytes: marks in
+     * {@code inside} (when not null) every token reached, and returns the accepting nodes with children.
+     */
+    private int[] lexicalWalk(int t, int q, long[] inside) {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
         int[] at = new int[tr.maxDepth() + 1];
@@ -142,6 +203,12 @@ final class SplitConstraint extends ChartConstraint {
                 continue;
             }
             at[d] = next;
+            if (inside != null) {
+                for (int k = tr.tokensFrom(i), end = tr.tokensTo(i); k < end; k++) {
+                    int id = tr.tokenAt(k);
+                    inside[id >>> 6] |= 1L << id;
+                }
+            }
             if (dfa.accepts(next) && tr.skip(i) > i + 1) {
                 if (count == out.length) {
                     out = Arrays.copyOf(out, count * 2);
@@ -150,12 +217,13 @@ final class SplitConstraint extends ChartConstraint {
             }
             i++;
         }
-        return (int[]) cache.putObject(key, Arrays.copyOf(out, count));
+        return Arrays.copyOf(out, count);
     }
 
     @Override
     public long cacheBytes() {
-        return cache.bytes();
+        long[] m = startMask;
+        return cache.bytes() + (m == null ? 0 : 16L + 8L * m.length);
     }
 
     @Override
