@@ -112,8 +112,14 @@ final class ChartCursor implements Cursor {
             throw new RejectedInputException("the output has ended; nothing may follow", 0, "nothing");
         }
         int fed = 0;
-        while (fed < bytes.length && chart.feed(bytes[fed] & 0xFF)) {
-            fed++;
+        try {
+            while (fed < bytes.length && chart.feed(bytes[fed] & 0xFF)) {
+                fed++;
+            }
+        } catch (RuntimeException e) {
+            // the parser's item limit: the cursor stays where it was
+            chart.undo(fed);
+            throw e;
         }
         if (fed < bytes.length) {
             String exp = expected();

@@ -128,14 +128,29 @@ final class SplitConstraint extends ChartConstraint {
             c.pushEnds(t, origins, m);
             try {
                 c.expectedBytes(first);
-                for (int node : nodes) {
-                    walk(c, node, trie.skip(node), first, mask);
+                int f0 = (int) first[0];
+                int f1 = (int) (first[0] >>> 32);
+                int f2 = (int) first[1];
+                int f3 = (int) (first[1] >>> 32);
+                int f4 = (int) first[2];
+                int f5 = (int) (first[2] >>> 32);
+                int f6 = (int) first[3];
+                int f7 = (int) (first[3] >>> 32);
+                for (int e = 0; e < nodes.length; e += NODE_STRIDE) {
+                    // a node none of whose children begins with an expected byte is skipped outright
+                    if ((nodes[e + 1] & f0 | nodes[e + 2] & f1 | nodes[e + 3] & f2 | nodes[e + 4] & f3
+                            | nodes[e + 5] & f4 | nodes[e + 6] & f5 | nodes[e + 7] & f6 | nodes[e + 8] & f7) != 0) {
+                        walk(c, nodes[e], trie.skip(nodes[e]), first, mask);
+                    }
                 }
             } finally {
                 c.undo(1);
             }
         }
     }
+
+    /** Ints per boundary node: the trie node, then eight words of its children's byte set (bit b of word b/32). */
+    private static final int NODE_STRIDE = 9;
 
     private static final ThreadLocal<int[][]> ORIGINS = ThreadLocal.withInitial(() -> new int[1][64]);
 
@@ -164,7 +179,7 @@ final class SplitConstraint extends ChartConstraint {
 
     /**
      * Trie nodes with children at which terminal {@code t}'s DFA, started in {@code q}, accepts: the
-     * lexeme may end there and the token go on.
+     * lexeme may end there and the token go on ({@link #NODE_STRIDE} ints per node).
      */
     private int[] boundary(int t, int q) {
         int key = boundaryOffset[t] + q;
@@ -184,14 +199,15 @@ final class SplitConstraint extends ChartConstraint {
 
     /**
      * Walks the trie from DFA state {@code q} of terminal {@code t}, pruning at dead bytes: marks in
-     * {@code inside} (when not null) every token reached, and returns the accepting nodes with children.
+     * {@code inside} (when not null) every token reached, and returns the accepting nodes with children,
+     * {@link #NODE_STRIDE} ints each: the node, then the 256-bit set of its children's first bytes.
      */
     private int[] lexicalWalk(int t, int q, long[] inside) {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
         int[] at = new int[tr.maxDepth() + 1];
         at[0] = q;
-        int[] out = new int[16];
+        int[] out = new int[16 * NODE_STRIDE];
         int count = 0;
         int n = tr.nodeCount();
         int i = 1;
@@ -210,10 +226,15 @@ final class SplitConstraint extends ChartConstraint {
                 }
             }
             if (dfa.accepts(next) && tr.skip(i) > i + 1) {
-                if (count == out.length) {
-                    out = Arrays.copyOf(out, count * 2);
+                if (count + NODE_STRIDE > out.length) {
+                    out = Arrays.copyOf(out, out.length * 2);
                 }
-                out[count++] = i;
+                out[count] = i;
+                for (int j = i + 1, end = tr.skip(i); j < end; j = tr.skip(j)) {
+                    int b = tr.label(j) & 0xFF;
+                    out[count + 1 + (b >>> 5)] |= 1 << b;
+                }
+                count += NODE_STRIDE;
             }
             i++;
         }

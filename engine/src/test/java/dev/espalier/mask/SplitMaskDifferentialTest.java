@@ -27,17 +27,35 @@ class SplitMaskDifferentialTest {
 
     static final Path GRAMMARS = Path.of("..", "grammars");
 
+    /** Walks and steps per walk are multiplied by this under {@code -Despalier.longTests=true}. */
+    static final int SCALE = Boolean.getBoolean("espalier.longTests") ? 4 : 1;
+
     @Test
     void libraryGrammarsOnCl100k() throws Exception {
-        Vocabulary v = TestVocabularies.builtin("cl100k");
+        long masks = compare(TestVocabularies.builtin("cl100k"),
+                List.of("json", "arithmetic", "tree-query", "email", "inspection-report", "csv"), 3, 30);
+        System.out.println("split vs byte-level Earley masks compared on cl100k: " + masks);
+        assertTrue(masks > 50);
+    }
+
+    @Test
+    void jsonAndQueriesOnQwen3() throws Exception {
+        // a second real vocabulary (byte-level BPE of another family), when shared/vocab has it
+        long masks = compare(TestVocabularies.shared("qwen3"), List.of("json", "tree-query"), 2, 25);
+        System.out.println("split vs byte-level Earley masks compared on Qwen3: " + masks);
+        assertTrue(masks > 20);
+    }
+
+    /** Compares masks along sampled generations; returns the number of masks compared. */
+    static long compare(Vocabulary v, List<String> grammars, int walks, int steps) throws Exception {
         long masks = 0;
-        for (String name : List.of("json", "arithmetic", "tree-query", "email", "inspection-report", "csv")) {
+        for (String name : grammars) {
             Grammar g = Abnf.parseWithImports(GRAMMARS.resolve(name + ".abnf")).grammar();
             Constraint fast = new SplitConstraint(SplitGrammar.compile(g, 10_000), v, MaskSettings.defaults());
             Constraint slow = new EarleyConstraint(EarleyGrammar.compile(g), v, MaskSettings.defaults());
             Random rnd = new Random(name.hashCode());
-            for (int walk = 0; walk < 3; walk++) {
-                MaskedSampler.Sample s = MaskedSampler.sample(fast, rnd, 30, 0.05);
+            for (int walk = 0; walk < walks * SCALE; walk++) {
+                MaskedSampler.Sample s = MaskedSampler.sample(fast, rnd, steps * SCALE, 0.05);
                 Cursor a = fast.start();
                 Cursor b = slow.start();
                 long[] ma = new long[v.maskWords()];
@@ -58,8 +76,7 @@ class SplitMaskDifferentialTest {
                 }
             }
         }
-        System.out.println("split vs byte-level Earley masks compared: " + masks);
-        assertTrue(masks > 50);
+        return masks;
     }
 
     static int firstDifference(long[] a, long[] b) {

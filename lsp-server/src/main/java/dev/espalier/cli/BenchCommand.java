@@ -43,7 +43,7 @@ final class BenchCommand implements Callable<Integer> {
     List<String> grammars;
 
     @Option(names = "--vocab", paramLabel = "NAME|PATH",
-            description = "A vocabulary (repeatable; default: cl100k, o200k and Qwen3 when ../shared/vocab has it).")
+            description = "A vocabulary (repeatable; default: cl100k, o200k, then Qwen3 (patterns) or Llama 3 and Qwen3 (grammars) when ../shared/vocab has them).")
     List<String> vocabs;
 
     @Option(names = "--generations", paramLabel = "N", defaultValue = "4",
@@ -57,6 +57,15 @@ final class BenchCommand implements Callable<Integer> {
     @Option(names = "--baseline-masks", paramLabel = "N", defaultValue = "3",
             description = "Masks computed with the baseline per row. Default: ${DEFAULT-VALUE}.")
     int baselineMasks;
+
+    @Option(names = "--min-steps", paramLabel = "N", defaultValue = "400",
+            description = "With --grammar: generations continue until at least N masks are measured. "
+                    + "Default: ${DEFAULT-VALUE}.")
+    int minSteps;
+
+    @Option(names = "--warm-up", paramLabel = "N", defaultValue = "3",
+            description = "With --grammar: unreported passes over the grammars before measuring. Default: ${DEFAULT-VALUE}.")
+    int warmUpPasses;
 
     @Option(names = "--seed", paramLabel = "S", defaultValue = "1", description = "Random seed. Default: ${DEFAULT-VALUE}.")
     long seed;
@@ -210,20 +219,26 @@ final class BenchCommand implements Callable<Integer> {
         if (vs == null || vs.isEmpty()) {
             vs = new ArrayList<>(List.of("cl100k", "o200k"));
             for (String m : List.of("llama3", "qwen3")) {
-                Path p = Path.of("..", "shared", "vocab", m + "-tokenizer.json.gz");
-                if (Files.isRegularFile(p)) {
-                    vs.add(p.toString());
+                for (String dir : List.of("../shared/vocab", "../../shared/vocab")) {
+                    Path p = Path.of(dir, m + "-tokenizer.json.gz");
+                    if (Files.isRegularFile(p)) {
+                        vs.add(p.toString());
+                        break;
+                    }
                 }
             }
         }
         return vs;
     }
 
+    private static final java.lang.management.ThreadMXBean THREADS =
+            java.lang.management.ManagementFactory.getThreadMXBean();
+
     private int grammarBench(PrintWriter out) {
-        out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "grammar", "vocabulary", "1st-mask", "median",
-                "p99", "max", "steps", "cache", "naive", "ratio");
-        out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "", "", "ms", "µs", "µs", "µs", "", "KiB",
-                "µs/mask", "×");
+        String head = "%-22s %-20s %9s %9s %9s %8s %8s %8s %8s %8s %6s %8s %10s %8s%n";
+        out.printf(head, "grammar", "vocabulary", "compile", "1st-mask", "1st-cpu", "median", "p99", "max", "cpu-med",
+                "cpu-p99", "steps", "cache", "naive", "ratio");
+        out.printf(head, "", "", "ms", "ms", "ms", "µs", "µs", "µs", "µs", "µs", "", "KiB", "µs/mask", "×");
         boolean warmedUp = false;
         for (String vn : vocabularies()) {
             long t0 = System.nanoTime();
@@ -233,15 +248,18 @@ final class BenchCommand implements Callable<Integer> {
             long t2 = System.nanoTime();
             Progress.note(String.format("%s: %d tokens, loaded in %.0f ms, trie of %d nodes built in %.0f ms",
                     v.name(), v.tokenCount(), (t1 - t0) / 1e6, v.trie().nodeCount(), (t2 - t1) / 1e6));
-            for (String file : grammars) {
-                dev.espalier.grammar.Grammar g = GrammarFiles.load(file, null, spec.commandLine().getErr());
-                if (!warmedUp) {
-                    Progress.note("warming up on " + v.name());
+            if (!warmedUp) {
+                // unreported passes so that the JIT has compiled compile and mask paths before any figure is taken
+                Progress.note("warming up on " + v.name());
+                for (int pass = 0; pass < warmUpPasses; pass++) {
                     for (String f : grammars) {
                         grammarRow(f, GrammarFiles.load(f, null, spec.commandLine().getErr()), v, true);
                     }
-                    warmedUp = true;
                 }
+                warmedUp = true;
+            }
+            for (String file : grammars) {
+                dev.espalier.grammar.Grammar g = GrammarFiles.load(file, null, spec.commandLine().getErr());
                 out.println(grammarRow(file, g, v, false));
                 out.flush();
             }
@@ -251,21 +269,37 @@ final class BenchCommand implements Callable<Integer> {
 
     private String grammarRow(String file, dev.espalier.grammar.Grammar g, Vocabulary v, boolean warmUp) {
         long[] mask = new long[v.maskWords()];
-        long a = System.nanoTime();
-        Constraint c = Constraint.grammar(g, v);
-        c.start().fillMask(mask);
-        double firstMs = (System.nanoTime() - a) / 1e6;
-        // masks along real constrained generations, caches filling as they go
+        // compile and first mask of a fresh constraint (vocabulary trie built beforehand): median of 9
+        double[] compileMs = new double[warmUp ? 40 : 9];
+        double[] firstMs = new double[compileMs.length];
+        Constraint c = null;
+        double[] firstCpuMs = new double[compileMs.length];
+        for (int i = 0; i < firstMs.length; i++) {
+            long ca = THREADS.getCurrentThreadCpuTime();
+            long a = System.nanoTime();
+            c = Constraint.grammar(g, v);
+            long b = System.nanoTime();
+            c.start().fillMask(mask);
+            compileMs[i] = (b - a) / 1e6;
+            firstMs[i] = (System.nanoTime() - a) / 1e6;
+            firstCpuMs[i] = (THREADS.getCurrentThreadCpuTime() - ca) / 1e6;
+        }
+        // masks along real constrained generations, caches filling as they go; wall and thread CPU time
         Random rnd = new Random(seed);
         List<Double> times = new ArrayList<>();
+        List<Double> cpu = new ArrayList<>();
         List<byte[]> prefixes = new ArrayList<>();
-        for (int gen = 0; gen < generations; gen++) {
+        for (int gen = 0; gen < generations || times.size() < minSteps; gen++) {
             Cursor cur = c.start();
             ByteArrayOutputStream text = new ByteArrayOutputStream();
             for (int step = 0; step < 200 && !cur.isFinished(); step++) {
+                long c0 = THREADS.getCurrentThreadCpuTime();
                 long s0 = System.nanoTime();
                 cur.fillMask(mask);
-                times.add((System.nanoTime() - s0) / 1e3);
+                long s1 = System.nanoTime();
+                long c1 = THREADS.getCurrentThreadCpuTime();
+                times.add((s1 - s0) / 1e3);
+                cpu.add((c1 - c0) / 1e3);
                 prefixes.add(text.toByteArray());
                 int count = dev.espalier.mask.TokenBits.count(mask);
                 if (count == 0) {
@@ -281,6 +315,7 @@ final class BenchCommand implements Callable<Integer> {
             }
         }
         double[] t = times.stream().mapToDouble(Double::doubleValue).toArray();
+        double[] ct = cpu.stream().mapToDouble(Double::doubleValue).toArray();
         if (warmUp) {
             return "";
         }
@@ -305,10 +340,17 @@ final class BenchCommand implements Callable<Integer> {
         double med = percentile(t, 50);
         double naiveMed = percentile(naive, 50);
         String name = Path.of(file).getFileName().toString();
-        return String.format("%-22s %-26s %10.2f %9.1f %9.1f %9.1f %9d %9d %12.0f %9.0f", name, shorten(v.name()),
-                firstMs, med, percentile(t, 99), max(t), t.length, c.cacheBytes() / 1024, naiveMed, naiveMed / med);
+        return String.format("%-22s %-20s %9.2f %9.2f %9.2f %8.1f %8.1f %8.0f %8.1f %8.1f %6d %8d %10.0f %8.0f",
+                name, shortName(v.name()), percentile(compileMs, 50), percentile(firstMs, 50),
+                percentile(firstCpuMs, 50), med, percentile(t, 99),
+                max(t), percentile(ct, 50), percentile(ct, 99), t.length, c.cacheBytes() / 1024, naiveMed,
+                naiveMed / med);
     }
 
+    private static String shortName(String name) {
+        String n = name.replaceAll("^.*/", "").replaceAll("-tokenizer\\.json(\\.gz)?$", "");
+        return n.length() <= 20 ? n : n.substring(n.length() - 20);
+    }
 
     /** What one would write without Espalier: test every token with the JDK's regex engine. */
     static void baselineMask(Pattern p, String prefix, Vocabulary v, long[] mask) {
