@@ -1,0 +1,76 @@
+package dev.espalier.lsp;
+
+import org.eclipse.lsp4j.Diagnostic;
+import org.eclipse.lsp4j.DiagnosticSeverity;
+import org.eclipse.lsp4j.InitializeResult;
+import org.eclipse.lsp4j.PublishDiagnosticsParams;
+import org.eclipse.lsp4j.TextDocumentSyncKind;
+import org.eclipse.lsp4j.jsonrpc.ResponseErrorException;
+import org.junit.jupiter.api.Test;
+
+import java.util.List;
+import java.util.concurrent.ExecutionException;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertInstanceOf;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+/** Life cycle, routing and the custom request of the server, through a real lsp4j client. */
+class ServerSkeletonTest {
+
+    @Test
+    void initializeAnnouncesIncrementalSyncAndTheFeatures() throws Exception {
+        try (TestClient c = new TestClient(ServerOptions.defaults())) {
+            InitializeResult r = c.initialize(null);
+            assertEquals(TextDocumentSyncKind.Incremental, r.getCapabilities().getTextDocumentSync().getRight().getChange());
+            assertTrue(r.getCapabilities().getCompletionProvider().getResolveProvider());
+            assertEquals("espalier", r.getServerInfo().getName());
+        }
+    }
+
+    @Test
+    void aGrammarFileGetsDiagnosticsWithCodes() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            String uri = "file:///tmp/orchard-order.abnf";
+            c.open(uri, "order = tree\n");
+            PublishDiagnosticsParams p = c.diagnostics(uri);
+            Diagnostic d = p.getDiagnostics().stream().filter(x -> x.getCode().getLeft().equals("undefined-rule"))
+                    .findFirst().orElseThrow(() -> new AssertionError(p.getDiagnostics().toString()));
+            assertEquals(DiagnosticSeverity.Error, d.getSeverity());
+            // "tree" spans columns 8-12 of line 0
+            assertEquals(TestClient.range(0, 8, 0, 12), d.getRange());
+        }
+    }
+
+    @Test
+    void otherDocumentsGetNothingByDefaultAndNoTokenPreview() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            String uri = "file:///tmp/work-order.txt";
+            c.open(uri, "prune tree T-0042");
+            assertEquals(List.of(), c.diagnostics(uri).getDiagnostics());
+            ExecutionException e = assertThrows(ExecutionException.class, () -> TestClient.get(
+                    c.remote.allowedTokens(new AllowedTokensParams(uri, TestClient.pos(0, 3), 10))));
+            assertInstanceOf(ResponseErrorException.class, e.getCause());
+        }
+    }
+
+    @Test
+    void sampleFeaturesAnswerTheCustomRequest() throws Exception {
+        ServerOptions options = ServerOptions.defaults().withSamples(ctx -> new DocumentFeatures() {
+            @Override
+            public AllowedTokensResult allowedTokens(DocumentSnapshot doc, org.eclipse.lsp4j.Position p, int limit) {
+                int at = doc.offset(p);
+                return new AllowedTokensResult(2, 10, at == doc.text().length(), "",
+                        List.of(new AllowedTokensResult.AllowedToken(at, doc.text().substring(0, at))));
+            }
+        });
+        try (TestClient c = TestClient.start(options, null)) {
+            String uri = "file:///tmp/tag.txt";
+            c.open(uri, "RS-7");
+            AllowedTokensResult r = TestClient.get(c.remote.allowedTokens(new AllowedTokensParams(uri, TestClient.pos(0, 3), null)));
+            assertEquals(2, r.count());
+            assertEquals(List.of(new AllowedTokensResult.AllowedToken(3, "RS-")), r.tokens());
+        }
+    }
+}
