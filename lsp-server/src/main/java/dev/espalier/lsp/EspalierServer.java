@@ -464,6 +464,13 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
         public void refreshDiagnostics() {
             refreshAll();
         }
+
+        @Override
+        public void refreshDiagnostics(String uri) {
+            if (documents.containsKey(uri)) {
+                scheduleDiagnostics(uri, 0);
+            }
+        }
     }
 
     private final class Documents implements TextDocumentService {
@@ -574,7 +581,13 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
         public CompletableFuture<org.eclipse.lsp4j.jsonrpc.messages.Either3<org.eclipse.lsp4j.Range, org.eclipse.lsp4j.PrepareRenameResult, org.eclipse.lsp4j.PrepareRenameDefaultBehavior>> prepareRename(
                 org.eclipse.lsp4j.PrepareRenameParams params) {
             return onDocument("prepareRename", params.getTextDocument().getUri(), (f, doc) -> {
-                Range r = f.prepareRename(doc, params.getPosition());
+                Range r;
+                try {
+                    r = f.prepareRename(doc, params.getPosition());
+                } catch (IllegalArgumentException e) {
+                    throw new ResponseErrorException(new ResponseError(ResponseErrorCode.InvalidParams,
+                            e.getMessage(), null));
+                }
                 return r == null ? null
                         : org.eclipse.lsp4j.jsonrpc.messages.Either3.<Range, org.eclipse.lsp4j.PrepareRenameResult,
                                 org.eclipse.lsp4j.PrepareRenameDefaultBehavior>forFirst(r);

@@ -30,4 +30,7 @@ public interface ServerContext {
      * file changed). Returns at once; the work runs on the analysis thread.
      */
     void refreshDiagnostics();
+
+    /** Schedules the diagnostics of one open document again; nothing when it is not open. */
+    void refreshDiagnostics(String uri);
 }
