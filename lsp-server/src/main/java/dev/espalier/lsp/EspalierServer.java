@@ -136,7 +136,47 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
                 .setOutput(out)
                 .create();
         server.connect(launcher.getRemoteProxy());
+        server.forwardProtocolLog();
         return launcher;
+    }
+
+    private final java.util.logging.Handler protocolLog = new java.util.logging.Handler() {
+        private final ThreadLocal<Boolean> busy = ThreadLocal.withInitial(() -> false);
+
+        @Override
+        public void publish(java.util.logging.LogRecord r) {
+            if (r.getLevel().intValue() < java.util.logging.Level.WARNING.intValue() || busy.get()) {
+                return;
+            }
+            busy.set(true);
+            try {
+                String m = r.getMessage();
+                if (m == null && r.getThrown() != null) {
+                    m = describe(r.getThrown());
+                }
+                log(r.getLevel() == java.util.logging.Level.SEVERE ? MessageType.Error : MessageType.Warning,
+                        "JSON-RPC: " + m);
+            } finally {
+                busy.set(false);
+            }
+        }
+
+        @Override
+        public void flush() {
+        }
+
+        @Override
+        public void close() {
+        }
+    };
+
+    /**
+     * Problems the JSON-RPC layer finds in incoming messages (bad framing, JSON that does not parse,
+     * unsupported notifications) are logged by lsp4j through java.util.logging; they are forwarded
+     * to the client as {@code window/logMessage} too, until {@code exit}.
+     */
+    private void forwardProtocolLog() {
+        java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc").addHandler(protocolLog);
     }
 
     /** The options this server was made with. */
@@ -256,6 +296,7 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
 
     @Override
     public void exit() {
+        java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc").removeHandler(protocolLog);
         analysis.shutdownNow();
         exited.complete(shutdownRequested ? 0 : 1);
     }

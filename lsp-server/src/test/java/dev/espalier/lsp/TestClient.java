@@ -56,6 +56,7 @@ final class TestClient implements LanguageClient, AutoCloseable {
     final Remote remote;
     final OutputStream toServer;
     private final Future<Void> clientListening;
+    private final Launcher<Remote> clientLauncher;
     private final Future<Void> serverListening;
     final List<PublishDiagnosticsParams> published = new CopyOnWriteArrayList<>();
     final List<MessageParams> logs = new CopyOnWriteArrayList<>();
@@ -69,7 +70,7 @@ final class TestClient implements LanguageClient, AutoCloseable {
         OutputStream serverOut = new PipedOutputStream(clientIn);
         Launcher<?> serverLauncher = EspalierServer.launch(server, serverIn, serverOut);
         serverListening = serverLauncher.startListening();
-        Launcher<Remote> clientLauncher = new LSPLauncher.Builder<Remote>()
+        clientLauncher = new LSPLauncher.Builder<Remote>()
                 .setLocalService(this)
                 .setRemoteInterface(Remote.class)
                 .setInput(clientIn)
@@ -161,6 +162,25 @@ final class TestClient implements LanguageClient, AutoCloseable {
             }
         }
         return out;
+    }
+
+    /** The client's JSON-RPC endpoint, for requests and notifications outside the LSP. */
+    org.eclipse.lsp4j.jsonrpc.RemoteEndpoint clientEndpoint() {
+        return clientLauncher.getRemoteEndpoint();
+    }
+
+    /** Waits for a log message. */
+    MessageParams awaitLog(Predicate<MessageParams> which) throws InterruptedException {
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(TIMEOUT_SECONDS);
+        while (System.nanoTime() < deadline) {
+            for (MessageParams m : logs) {
+                if (which.test(m)) {
+                    return m;
+                }
+            }
+            Thread.sleep(5);
+        }
+        throw new AssertionError("no such log message; got " + logs);
     }
 
     static Position pos(int line, int character) {
