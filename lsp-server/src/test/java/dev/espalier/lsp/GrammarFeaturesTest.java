@@ -206,6 +206,18 @@ class GrammarFeaturesTest {
         assertEquals(at(ORDERS, "rootstock", 1, 0).getLine(), p.getDiagnostics().get(0).getRange().getStart().getLine());
     }
 
+    @Test
+    void anImportChangedOnDiskRefreshesTheImporterWhenTheClientReportsIt() throws Exception {
+        client.open(ordersUri, ORDERS);
+        assertEquals(List.of(), client.diagnostics(ordersUri).getDiagnostics());
+        write("stock/rootstocks.abnf", "stock = %s\"RS-7\"\n");
+        client.remote.getWorkspaceService().didChangeWatchedFiles(new org.eclipse.lsp4j.DidChangeWatchedFilesParams(
+                List.of(new org.eclipse.lsp4j.FileEvent(stockUri, org.eclipse.lsp4j.FileChangeType.Changed))));
+        PublishDiagnosticsParams p = client.awaitPublished(x -> x.getUri().equals(ordersUri)
+                && x.getDiagnostics().stream().anyMatch(d -> code(d).equals("undefined-rule")));
+        assertTrue(p.getDiagnostics().get(0).getMessage().contains("rootstock"), p.toString());
+    }
+
     // ------------------------------------------------------------ completion
 
     @Test

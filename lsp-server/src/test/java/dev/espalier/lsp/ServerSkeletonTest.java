@@ -44,6 +44,24 @@ class ServerSkeletonTest {
     }
 
     @Test
+    void diagnosticsAreCappedWithANoteOfHowManyMore() throws Exception {
+        ServerOptions capped = ServerOptions.defaults().withDebounce(java.time.Duration.ZERO).withMaxDiagnostics(10);
+        try (TestClient c = TestClient.start(capped, null)) {
+            StringBuilder sb = new StringBuilder("order = %s\"x\"");
+            for (int i = 0; i < 30; i++) {
+                sb.append(" / missing-").append(i);
+            }
+            String uri = "file:///tmp/capped.abnf";
+            c.open(uri, sb.append('\n').toString());
+            List<Diagnostic> ds = c.diagnostics(uri).getDiagnostics();
+            assertEquals(10, ds.size());
+            // 30 undefined rules: 9 shown, 21 more
+            assertEquals("21 more findings are not shown (at most 10 per document)", ds.get(ds.size() - 1).getMessage());
+            assertEquals(9, ds.stream().filter(d -> d.getSeverity() == DiagnosticSeverity.Error).count());
+        }
+    }
+
+    @Test
     void otherDocumentsGetNothingByDefaultAndNoTokenPreview() throws Exception {
         try (TestClient c = TestClient.start(null)) {
             String uri = "file:///tmp/work-order.txt";
