@@ -89,6 +89,8 @@ import java.util.function.Supplier;
 public final class EspalierServer implements LanguageServer, LanguageClientAware, EspalierRequests {
 
     private static final Gson GSON = new Gson();
+    /** Held strongly: java.util.logging keeps loggers only weakly, and with them their handlers. */
+    private static final java.util.logging.Logger JSON_RPC_LOG = java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc");
 
     private final ServerOptions options;
     private final Map<String, DocumentSnapshot> documents = new ConcurrentHashMap<>();
@@ -176,7 +178,7 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
      * to the client as {@code window/logMessage} too, until {@code exit}.
      */
     private void forwardProtocolLog() {
-        java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc").addHandler(protocolLog);
+        JSON_RPC_LOG.addHandler(protocolLog);
     }
 
     /** The options this server was made with. */
@@ -296,7 +298,7 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
 
     @Override
     public void exit() {
-        java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc").removeHandler(protocolLog);
+        JSON_RPC_LOG.removeHandler(protocolLog);
         analysis.shutdownNow();
         exited.complete(shutdownRequested ? 0 : 1);
     }
