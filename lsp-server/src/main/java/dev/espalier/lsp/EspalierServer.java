@@ -92,6 +92,9 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     /** Held strongly: java.util.logging keeps loggers only weakly, and with them their handlers. */
     private static final java.util.logging.Logger JSON_RPC_LOG = java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc");
 
+    /** How long {@code exit} waits for queued work to finish. */
+    static final long EXIT_GRACE_SECONDS = 3;
+
     private final ServerOptions options;
     private final Map<String, DocumentSnapshot> documents = new ConcurrentHashMap<>();
     private final Map<String, ScheduledFuture<?>> pendingDiagnostics = new ConcurrentHashMap<>();
@@ -293,12 +296,20 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     @Override
     public CompletableFuture<Object> shutdown() {
         shutdownRequested = true;
-        return CompletableFuture.completedFuture(null);
+        // answered after the work queued before it (the analysis thread runs in arrival order)
+        return onAnalysisThread("shutdown", () -> null);
     }
 
     @Override
     public void exit() {
         JSON_RPC_LOG.removeHandler(protocolLog);
+        // let the work already queued answer (a client may send exit without waiting), briefly
+        analysis.shutdown();
+        try {
+            analysis.awaitTermination(EXIT_GRACE_SECONDS, TimeUnit.SECONDS);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
         analysis.shutdownNow();
         exited.complete(shutdownRequested ? 0 : 1);
     }
