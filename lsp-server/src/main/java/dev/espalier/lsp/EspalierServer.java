@@ -92,6 +92,9 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     /** Held strongly: java.util.logging keeps loggers only weakly, and with them their handlers. */
     private static final java.util.logging.Logger JSON_RPC_LOG = java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc");
 
+    /** Stack size of the analysis thread. */
+    static final long ANALYSIS_STACK_BYTES = 16L << 20;
+
     /** How long {@code exit} waits for queued work to finish. */
     static final long EXIT_GRACE_SECONDS = 3;
 
@@ -114,7 +117,8 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     public EspalierServer(ServerOptions options) {
         this.options = options;
         this.analysis = Executors.newSingleThreadScheduledExecutor(r -> {
-            Thread t = new Thread(r, "espalier-analysis");
+            // a large stack: the ABNF reader nests groups up to 1,000 deep on it
+            Thread t = new Thread(null, r, "espalier-analysis", ANALYSIS_STACK_BYTES);
             t.setDaemon(true);
             return t;
         });

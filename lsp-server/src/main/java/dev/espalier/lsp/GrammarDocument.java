@@ -54,6 +54,8 @@ final class GrammarDocument {
     private final Map<String, DocumentSnapshot> views = new HashMap<>();
     private final Map<RuleSite, int[]> extents = new HashMap<>();
     private GrammarAnalysis analysis;
+    /** Hover texts by rule key: deterministic for a version, and building an automaton is not free. */
+    final Map<String, String> hovers = new HashMap<>();
 
     private GrammarDocument(DocumentSnapshot doc, String name, AbnfResult result, String refusal,
                             Map<String, Object> importStamps, Map<String, String> texts) {

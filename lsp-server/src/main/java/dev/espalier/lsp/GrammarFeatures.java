@@ -158,7 +158,15 @@ public final class GrammarFeatures implements DocumentFeatures {
         }
         List<Diagnostic> out = new ArrayList<>();
         for (dev.espalier.grammar.Diagnostic d : g.result.diagnostics()) {
-            out.add(toLsp(doc, d));
+            Diagnostic lsp = toLsp(doc, d);
+            if (d.code().equals("duplicate-definition") && d.span().isKnown() && d.span().end() <= doc.text().length()) {
+                String key = GrammarDocument.key(doc.text().substring(d.span().start(), d.span().end()));
+                g.definitions(key).stream().filter(x -> x.kind() == RuleSite.Kind.DEFINITION).findFirst()
+                        .filter(first -> first.span().start() != d.span().start())
+                        .ifPresent(first -> lsp.setRelatedInformation(List.of(
+                                new org.eclipse.lsp4j.DiagnosticRelatedInformation(g.location(first), "first definition"))));
+            }
+            out.add(lsp);
         }
         doc.path().ifPresent(this::refreshImporters);
         return out;
@@ -292,7 +300,7 @@ public final class GrammarFeatures implements DocumentFeatures {
             return null;
         }
         RuleSite s = site.get();
-        String md = ruleSummary(g, s.key(), s.name());
+        String md = g.hovers.computeIfAbsent(s.key() + "\u0000" + s.name(), k -> ruleSummary(g, s.key(), s.name()));
         return new Hover(new MarkupContent(MarkupKind.MARKDOWN, md), doc.range(s.span().start(), s.span().end()));
     }
 

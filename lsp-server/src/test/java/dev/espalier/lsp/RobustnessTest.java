@@ -171,6 +171,23 @@ class RobustnessTest {
     }
 
     @Test
+    void groupsNestedPastTheLimitAreReportedAndDeepOnesBelowItAreRead() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            String deep = "order = " + "(".repeat(900) + "%s\"x\"" + ")".repeat(900) + "\n";
+            String uri = "file:///tmp/deep.abnf";
+            c.open(uri, deep);
+            assertEquals(List.of(), c.diagnostics(uri).getDiagnostics());
+            // past the front end's documented limit of 1,000 levels (Abnf.MAX_NESTING)
+            String deeper = "order = " + "(".repeat(1500) + "%s\"x\"" + ")".repeat(1500) + "\n";
+            c.replaceAll(uri, deeper);
+            List<Diagnostic> ds = c.diagnostics(uri).getDiagnostics();
+            assertTrue(ds.stream().anyMatch(d -> d.getMessage().contains("1000") || d.getMessage().contains("1,000")),
+                    ds.toString());
+            stillServes(c);
+        }
+    }
+
+    @Test
     void aFailingFeatureGivesAnErrorResponseAndALogMessage() throws Exception {
         ServerOptions failing = ServerOptions.defaults().withDebounce(Duration.ZERO).withSamples(ctx -> new DocumentFeatures() {
             @Override
