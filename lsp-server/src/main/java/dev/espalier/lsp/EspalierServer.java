@@ -259,7 +259,7 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
         c.setSemanticTokensProvider(new SemanticTokensWithRegistrationOptions(SemanticLegend.legend(), true, false));
         c.setFoldingRangeProvider(true);
         c.setDocumentFormattingProvider(true);
-        c.setCodeActionProvider(new CodeActionOptions(List.of(CodeActionKind.QuickFix, CodeActionKind.Refactor)));
+        c.setCodeActionProvider(new CodeActionOptions(List.of(CodeActionKind.QuickFix)));
         return c;
     }
 

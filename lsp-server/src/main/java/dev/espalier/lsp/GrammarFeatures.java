@@ -76,6 +76,8 @@ import java.util.concurrent.ConcurrentHashMap;
  */
 public final class GrammarFeatures implements DocumentFeatures {
 
+    /** Directory entries a workspace walk visits at most (a folder may be a whole home directory). */
+    static final int MAX_WORKSPACE_ENTRIES = 50_000;
     /** Workspace files listed by {@code workspace/symbol} at most. */
     static final int MAX_WORKSPACE_FILES = 2_000;
     /** Symbols returned by {@code workspace/symbol} at most. */
@@ -607,8 +609,13 @@ public final class GrammarFeatures implements DocumentFeatures {
         }
         try {
             Files.walkFileTree(folder, Set.of(), 12, new SimpleFileVisitor<>() {
+                private int entries;
+
                 @Override
                 public FileVisitResult preVisitDirectory(Path dir, BasicFileAttributes attrs) {
+                    if (++entries > MAX_WORKSPACE_ENTRIES) {
+                        return FileVisitResult.TERMINATE;
+                    }
                     String n = dir.getFileName() == null ? "" : dir.getFileName().toString();
                     if (!dir.equals(folder) && (n.startsWith(".") || n.equals("target") || n.equals("node_modules")
                             || n.equals("build"))) {
@@ -619,6 +626,9 @@ public final class GrammarFeatures implements DocumentFeatures {
 
                 @Override
                 public FileVisitResult visitFile(Path file, BasicFileAttributes attrs) {
+                    if (++entries > MAX_WORKSPACE_ENTRIES) {
+                        return FileVisitResult.TERMINATE;
+                    }
                     if (attrs.isRegularFile() && file.toString().toLowerCase(Locale.ROOT).endsWith(".abnf")) {
                         out.add(file.toAbsolutePath().normalize());
                     }

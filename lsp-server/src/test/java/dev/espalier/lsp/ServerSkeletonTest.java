@@ -30,6 +30,19 @@ class ServerSkeletonTest {
     }
 
     @Test
+    void aClientThatRegistersDynamicallyIsAskedToWatchGrammarFiles() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            long deadline = System.nanoTime() + 10_000_000_000L;
+            while (c.registrations.isEmpty() && System.nanoTime() < deadline) {
+                Thread.sleep(5);
+            }
+            assertEquals("workspace/didChangeWatchedFiles", c.registrations.get(0).getMethod());
+            assertTrue(c.registrations.get(0).getRegisterOptions().toString().contains("**/*.abnf"),
+                    c.registrations.get(0).getRegisterOptions().toString());
+        }
+    }
+
+    @Test
     void aGrammarFileGetsDiagnosticsWithCodes() throws Exception {
         try (TestClient c = TestClient.start(null)) {
             String uri = "file:///tmp/orchard-order.abnf";
