@@ -121,7 +121,15 @@ class RobustnessTest {
             assertEquals(1, ds.size(), ds.toString());
             assertTrue(ds.get(0).getMessage().contains("binary content"), ds.get(0).getMessage());
             assertNotNull(c.awaitLog(m -> m.getMessage().contains("binary content")));
-            // control characters without NUL are ABNF syntax errors, analysed as usual
+            // undecodable bytes (U+FFFD after UTF-8 decoding) and control characters without NUL count too
+            StringBuilder fffd = new StringBuilder("order = \"a\"\n");
+            for (int k = 0; k < 2_000; k++) {
+                fffd.append(k % 3 == 0 ? '\uFFFD' : (char) ('a' + k % 26));
+            }
+            String uri3 = "file:///tmp/undecodable.abnf";
+            c.open(uri3, fffd.toString());
+            assertTrue(c.diagnostics(uri3).getDiagnostics().get(0).getMessage().contains("binary content"));
+            // a few control characters are ABNF syntax errors, analysed as usual
             String ctl = "order = \"a\" \u0001\u0002 b\u0007\n";
             String uri2 = "file:///tmp/controls.abnf";
             c.open(uri2, ctl);
