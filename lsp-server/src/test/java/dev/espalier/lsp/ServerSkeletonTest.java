@@ -102,6 +102,11 @@ class ServerSkeletonTest {
             AllowedTokensResult r = TestClient.get(c.remote.allowedTokens(new AllowedTokensParams(uri, TestClient.pos(0, 3), null)));
             assertEquals(2, r.count());
             assertEquals(List.of(new AllowedTokensResult.AllowedToken(3, "RS-")), r.tokens());
+            // the field names editor plugins see, as documented on EspalierRequests (lsp4j writes JSON with Gson)
+            Object raw = TestClient.get(c.clientEndpoint().request("espalier/allowedTokens", java.util.Map.of(
+                    "uri", uri, "position", java.util.Map.of("line", 0, "character", 4), "limit", 5)));
+            assertEquals("{\"count\":2,\"vocabularySize\":10,\"endAllowed\":true,\"forced\":\"\","
+                    + "\"tokens\":[{\"id\":4,\"text\":\"RS-7\"}]}", new com.google.gson.Gson().toJson(raw));
         }
     }
 }
