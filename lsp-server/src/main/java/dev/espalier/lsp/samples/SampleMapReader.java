@@ -307,9 +307,33 @@ public final class SampleMapReader {
         return text.offset(new org.eclipse.lsp4j.Position(line, col));
     }
 
-    /** The range of the current scalar token or field name. */
+    /**
+     * The range of the current scalar token or field name. A field name ends at its closing quote
+     * (the parser's own location is already past the colon).
+     */
     private Range tokenRange(JsonParser p) {
-        return range(offsetOf(p.currentTokenLocation()), offsetOf(p.currentLocation()));
+        int a = offsetOf(p.currentTokenLocation());
+        if (p.currentToken() == JsonToken.FIELD_NAME) {
+            return range(a, stringEnd(a));
+        }
+        return range(a, offsetOf(p.currentLocation()));
+    }
+
+    /** The offset just past the JSON string literal starting at {@code a}. */
+    private int stringEnd(int a) {
+        String t = text.text();
+        if (a >= t.length() || t.charAt(a) != '"') {
+            return a;
+        }
+        for (int i = a + 1; i < t.length(); i++) {
+            char c = t.charAt(i);
+            if (c == '\\') {
+                i++;
+            } else if (c == '"') {
+                return i + 1;
+            }
+        }
+        return t.length();
     }
 
     /** The range of the current value, skipping over it when it is an object or array. */
