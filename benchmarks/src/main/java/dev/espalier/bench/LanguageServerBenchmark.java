@@ -57,7 +57,9 @@ import java.util.concurrent.TimeUnit;
  *       the diagnostics of that version (target: 200 ms for 2,000 rules);</li>
  *   <li>{@code completionWarm}: a completion request in a rule body of a document already checked
  *       (all rule names, core rules and snippets; target: 50 ms);</li>
- *   <li>{@code hoverWarm}: hover on a rule of a checked document (facts, automaton, examples).</li>
+ *   <li>{@code hoverWarm}: hover on a regular rule of a checked document, asked before (the server
+ *       keeps a rule's hover text per document version: facts, automaton size, examples); the first
+ *       hover of a version also builds the rule's byte automaton.</li>
  * </ul>
  * Run: {@code java -jar benchmarks/target/benchmarks.jar LanguageServer}.
  */

@@ -92,6 +92,12 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     /** Held strongly: java.util.logging keeps loggers only weakly, and with them their handlers. */
     private static final java.util.logging.Logger JSON_RPC_LOG = java.util.logging.Logger.getLogger("org.eclipse.lsp4j.jsonrpc");
 
+    /** Stack size of the analysis thread. */
+    static final long ANALYSIS_STACK_BYTES = 16L << 20;
+
+    /** How long {@code exit} waits for queued work to finish. */
+    static final long EXIT_GRACE_SECONDS = 3;
+
     private final ServerOptions options;
     private final Map<String, DocumentSnapshot> documents = new ConcurrentHashMap<>();
     private final Map<String, ScheduledFuture<?>> pendingDiagnostics = new ConcurrentHashMap<>();
@@ -111,7 +117,8 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     public EspalierServer(ServerOptions options) {
         this.options = options;
         this.analysis = Executors.newSingleThreadScheduledExecutor(r -> {
-            Thread t = new Thread(r, "espalier-analysis");
+            // a large stack: the ABNF reader nests groups up to 1,000 deep on it
+            Thread t = new Thread(null, r, "espalier-analysis", ANALYSIS_STACK_BYTES);
             t.setDaemon(true);
             return t;
         });
@@ -252,7 +259,7 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
         c.setSemanticTokensProvider(new SemanticTokensWithRegistrationOptions(SemanticLegend.legend(), true, false));
         c.setFoldingRangeProvider(true);
         c.setDocumentFormattingProvider(true);
-        c.setCodeActionProvider(new CodeActionOptions(List.of(CodeActionKind.QuickFix, CodeActionKind.Refactor)));
+        c.setCodeActionProvider(new CodeActionOptions(List.of(CodeActionKind.QuickFix)));
         return c;
     }
 
@@ -293,12 +300,20 @@ public final class EspalierServer implements LanguageServer, LanguageClientAware
     @Override
     public CompletableFuture<Object> shutdown() {
         shutdownRequested = true;
-        return CompletableFuture.completedFuture(null);
+        // answered after the work queued before it (the analysis thread runs in arrival order)
+        return onAnalysisThread("shutdown", () -> null);
     }
 
     @Override
     public void exit() {
         JSON_RPC_LOG.removeHandler(protocolLog);
+        // let the work already queued answer (a client may send exit without waiting), briefly
+        analysis.shutdown();
+        try {
+            analysis.awaitTermination(EXIT_GRACE_SECONDS, TimeUnit.SECONDS);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
         analysis.shutdownNow();
         exited.complete(shutdownRequested ? 0 : 1);
     }

@@ -29,8 +29,8 @@ import java.util.Optional;
  * the rule-name occurrences indexed by rule, and what each imported file looked like when it was
  * read, so that the server notices when an import changed.
  *
- * <p>Documents larger than {@link #MAX_CHARS} characters and documents holding NUL characters
- * (binary content) are not analysed: they get one diagnostic saying why, and the other features
+ * <p>Documents larger than {@link #MAX_CHARS} characters and binary content (a NUL character, or
+ * more than 1% control characters or U+FFFD, the mark of bytes that are not UTF-8) are not analysed: they get one diagnostic saying why, and the other features
  * offer nothing for them.
  */
 final class GrammarDocument {
@@ -54,6 +54,8 @@ final class GrammarDocument {
     private final Map<String, DocumentSnapshot> views = new HashMap<>();
     private final Map<RuleSite, int[]> extents = new HashMap<>();
     private GrammarAnalysis analysis;
+    /** Hover texts by rule key: deterministic for a version, and building an automaton is not free. */
+    final Map<String, String> hovers = new HashMap<>();
 
     private GrammarDocument(DocumentSnapshot doc, String name, AbnfResult result, String refusal,
                             Map<String, Object> importStamps, Map<String, String> texts) {
@@ -126,11 +128,25 @@ final class GrammarDocument {
             return String.format("this file is too large to check: %,d characters (the limit is %,d)",
                     text.length(), MAX_CHARS);
         }
+        int first = -1;
+        int odd = 0;
+        for (int i = 0; i < text.length(); i++) {
+            char c = text.charAt(i);
+            boolean control = (c < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7F || c == '\uFFFD';
+            if (control) {
+                odd++;
+                if (first < 0) {
+                    first = i;
+                }
+            }
+        }
         int nul = text.indexOf('\0');
-        if (nul >= 0) {
-            var p = doc.position(nul);
-            return "this file holds binary content (a NUL character at line " + (p.getLine() + 1) + ", column "
-                    + (p.getCharacter() + 1) + "); ABNF is text, so it is not checked";
+        if (nul >= 0 || (odd >= 8 && odd * 100L > text.length())) {
+            int at = nul >= 0 ? nul : first;
+            var p = doc.position(at);
+            return "this file holds binary content (" + (nul >= 0 ? "a NUL character" : odd + " control or undecodable characters, the first")
+                    + " at line " + (p.getLine() + 1) + ", column " + (p.getCharacter() + 1)
+                    + "); ABNF is text, so it is not checked";
         }
         return null;
     }

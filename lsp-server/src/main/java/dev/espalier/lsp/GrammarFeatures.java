@@ -76,6 +76,8 @@ import java.util.concurrent.ConcurrentHashMap;
  */
 public final class GrammarFeatures implements DocumentFeatures {
 
+    /** Directory entries a workspace walk visits at most (a folder may be a whole home directory). */
+    static final int MAX_WORKSPACE_ENTRIES = 50_000;
     /** Workspace files listed by {@code workspace/symbol} at most. */
     static final int MAX_WORKSPACE_FILES = 2_000;
     /** Symbols returned by {@code workspace/symbol} at most. */
@@ -158,7 +160,15 @@ public final class GrammarFeatures implements DocumentFeatures {
         }
         List<Diagnostic> out = new ArrayList<>();
         for (dev.espalier.grammar.Diagnostic d : g.result.diagnostics()) {
-            out.add(toLsp(doc, d));
+            Diagnostic lsp = toLsp(doc, d);
+            if (d.code().equals("duplicate-definition") && d.span().isKnown() && d.span().end() <= doc.text().length()) {
+                String key = GrammarDocument.key(doc.text().substring(d.span().start(), d.span().end()));
+                g.definitions(key).stream().filter(x -> x.kind() == RuleSite.Kind.DEFINITION).findFirst()
+                        .filter(first -> first.span().start() != d.span().start())
+                        .ifPresent(first -> lsp.setRelatedInformation(List.of(
+                                new org.eclipse.lsp4j.DiagnosticRelatedInformation(g.location(first), "first definition"))));
+            }
+            out.add(lsp);
         }
         doc.path().ifPresent(this::refreshImporters);
         return out;
@@ -292,7 +302,7 @@ public final class GrammarFeatures implements DocumentFeatures {
             return null;
         }
         RuleSite s = site.get();
-        String md = ruleSummary(g, s.key(), s.name());
+        String md = g.hovers.computeIfAbsent(s.key() + "\u0000" + s.name(), k -> ruleSummary(g, s.key(), s.name()));
         return new Hover(new MarkupContent(MarkupKind.MARKDOWN, md), doc.range(s.span().start(), s.span().end()));
     }
 
@@ -599,8 +609,13 @@ public final class GrammarFeatures implements DocumentFeatures {
         }
         try {
             Files.walkFileTree(folder, Set.of(), 12, new SimpleFileVisitor<>() {
+                private int entries;
+
                 @Override
                 public FileVisitResult preVisitDirectory(Path dir, BasicFileAttributes attrs) {
+                    if (++entries > MAX_WORKSPACE_ENTRIES) {
+                        return FileVisitResult.TERMINATE;
+                    }
                     String n = dir.getFileName() == null ? "" : dir.getFileName().toString();
                     if (!dir.equals(folder) && (n.startsWith(".") || n.equals("target") || n.equals("node_modules")
                             || n.equals("build"))) {
@@ -611,6 +626,9 @@ public final class GrammarFeatures implements DocumentFeatures {
 
                 @Override
                 public FileVisitResult visitFile(Path file, BasicFileAttributes attrs) {
+                    if (++entries > MAX_WORKSPACE_ENTRIES) {
+                        return FileVisitResult.TERMINATE;
+                    }
                     if (attrs.isRegularFile() && file.toString().toLowerCase(Locale.ROOT).endsWith(".abnf")) {
                         out.add(file.toAbsolutePath().normalize());
                     }

@@ -161,6 +161,8 @@ class GrammarFeaturesTest {
         assertEquals(range(1, 17, 1, 20), undefined.getRange()); // "tre"
         assertEquals(DiagnosticSeverity.Error, undefined.getSeverity());
         assertEquals(range(2, 0, 2, 5), byCode.get("duplicate-definition").getRange());
+        assertEquals(range(1, 0, 1, 5), byCode.get("duplicate-definition").getRelatedInformation().get(0).getLocation()
+                .getRange());
         assertEquals(range(3, 0, 3, 5), byCode.get("unused-rule").getRange());
         assertEquals(DiagnosticSeverity.Warning, byCode.get("unused-rule").getSeverity());
         assertEquals(DiagnosticSeverity.Hint, byCode.get("case-insensitive-string").getSeverity());

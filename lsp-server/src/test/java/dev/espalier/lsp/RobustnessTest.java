@@ -121,7 +121,15 @@ class RobustnessTest {
             assertEquals(1, ds.size(), ds.toString());
             assertTrue(ds.get(0).getMessage().contains("binary content"), ds.get(0).getMessage());
             assertNotNull(c.awaitLog(m -> m.getMessage().contains("binary content")));
-            // control characters without NUL are ABNF syntax errors, analysed as usual
+            // undecodable bytes (U+FFFD after UTF-8 decoding) and control characters without NUL count too
+            StringBuilder fffd = new StringBuilder("order = \"a\"\n");
+            for (int k = 0; k < 2_000; k++) {
+                fffd.append(k % 3 == 0 ? '\uFFFD' : (char) ('a' + k % 26));
+            }
+            String uri3 = "file:///tmp/undecodable.abnf";
+            c.open(uri3, fffd.toString());
+            assertTrue(c.diagnostics(uri3).getDiagnostics().get(0).getMessage().contains("binary content"));
+            // a few control characters are ABNF syntax errors, analysed as usual
             String ctl = "order = \"a\" \u0001\u0002 b\u0007\n";
             String uri2 = "file:///tmp/controls.abnf";
             c.open(uri2, ctl);
@@ -166,6 +174,23 @@ class RobustnessTest {
             String md = h.getContents().getRight().getValue();
             assertTrue(md.contains("would exceed 10,000 states"), md);
             assertNotNull(c.awaitLog(m -> m.getType() == MessageType.Info && m.getMessage().contains("tail")));
+            stillServes(c);
+        }
+    }
+
+    @Test
+    void groupsNestedPastTheLimitAreReportedAndDeepOnesBelowItAreRead() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            String deep = "order = " + "(".repeat(900) + "%s\"x\"" + ")".repeat(900) + "\n";
+            String uri = "file:///tmp/deep.abnf";
+            c.open(uri, deep);
+            assertEquals(List.of(), c.diagnostics(uri).getDiagnostics());
+            // past the front end's documented limit of 1,000 levels (Abnf.MAX_NESTING)
+            String deeper = "order = " + "(".repeat(1500) + "%s\"x\"" + ")".repeat(1500) + "\n";
+            c.replaceAll(uri, deeper);
+            List<Diagnostic> ds = c.diagnostics(uri).getDiagnostics();
+            assertTrue(ds.stream().anyMatch(d -> d.getMessage().contains("1000") || d.getMessage().contains("1,000")),
+                    ds.toString());
             stillServes(c);
         }
     }

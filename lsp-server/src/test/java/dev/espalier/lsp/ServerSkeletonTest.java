@@ -30,6 +30,19 @@ class ServerSkeletonTest {
     }
 
     @Test
+    void aClientThatRegistersDynamicallyIsAskedToWatchGrammarFiles() throws Exception {
+        try (TestClient c = TestClient.start(null)) {
+            long deadline = System.nanoTime() + 10_000_000_000L;
+            while (c.registrations.isEmpty() && System.nanoTime() < deadline) {
+                Thread.sleep(5);
+            }
+            assertEquals("workspace/didChangeWatchedFiles", c.registrations.get(0).getMethod());
+            assertTrue(c.registrations.get(0).getRegisterOptions().toString().contains("**/*.abnf"),
+                    c.registrations.get(0).getRegisterOptions().toString());
+        }
+    }
+
+    @Test
     void aGrammarFileGetsDiagnosticsWithCodes() throws Exception {
         try (TestClient c = TestClient.start(null)) {
             String uri = "file:///tmp/orchard-order.abnf";
@@ -89,6 +102,11 @@ class ServerSkeletonTest {
             AllowedTokensResult r = TestClient.get(c.remote.allowedTokens(new AllowedTokensParams(uri, TestClient.pos(0, 3), null)));
             assertEquals(2, r.count());
             assertEquals(List.of(new AllowedTokensResult.AllowedToken(3, "RS-")), r.tokens());
+            // the field names editor plugins see, as documented on EspalierRequests (lsp4j writes JSON with Gson)
+            Object raw = TestClient.get(c.clientEndpoint().request("espalier/allowedTokens", java.util.Map.of(
+                    "uri", uri, "position", java.util.Map.of("line", 0, "character", 4), "limit", 5)));
+            assertEquals("{\"count\":2,\"vocabularySize\":10,\"endAllowed\":true,\"forced\":\"\","
+                    + "\"tokens\":[{\"id\":4,\"text\":\"RS-7\"}]}", new com.google.gson.Gson().toJson(raw));
         }
     }
 }

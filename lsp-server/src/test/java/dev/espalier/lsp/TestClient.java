@@ -93,7 +93,11 @@ final class TestClient implements LanguageClient, AutoCloseable {
 
     InitializeResult initialize(Path workspace) throws Exception {
         InitializeParams p = new InitializeParams();
-        p.setCapabilities(new ClientCapabilities());
+        ClientCapabilities caps = new ClientCapabilities();
+        org.eclipse.lsp4j.WorkspaceClientCapabilities wcaps = new org.eclipse.lsp4j.WorkspaceClientCapabilities();
+        wcaps.setDidChangeWatchedFiles(new org.eclipse.lsp4j.DidChangeWatchedFilesCapabilities(true));
+        caps.setWorkspace(wcaps);
+        p.setCapabilities(caps);
         if (workspace != null) {
             p.setWorkspaceFolders(List.of(new WorkspaceFolder(workspace.toUri().toString(), "ws")));
         }
@@ -189,6 +193,14 @@ final class TestClient implements LanguageClient, AutoCloseable {
 
     static Range range(int l1, int c1, int l2, int c2) {
         return new Range(new Position(l1, c1), new Position(l2, c2));
+    }
+
+    final List<org.eclipse.lsp4j.Registration> registrations = new CopyOnWriteArrayList<>();
+
+    @Override
+    public CompletableFuture<Void> registerCapability(org.eclipse.lsp4j.RegistrationParams params) {
+        registrations.addAll(params.getRegistrations());
+        return CompletableFuture.completedFuture(null);
     }
 
     @Override
