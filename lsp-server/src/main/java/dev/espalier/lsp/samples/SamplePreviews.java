@@ -129,7 +129,13 @@ public final class SamplePreviews implements DocumentFeatures {
         }
         String text = doc.text();
         String sample = withoutFinalLineBreak(text);
-        TokenPreview p = preview(doc.uri(), r.constraint, sample.getBytes(StandardCharsets.UTF_8));
+        TokenPreview p;
+        try {
+            p = preview(doc.uri(), r.constraint, sample.getBytes(StandardCharsets.UTF_8));
+        } catch (PreviewException x) {
+            return List.of(diagnostic(doc.range(0, doc.lineEnd(0)), DiagnosticSeverity.Warning, "preview-unavailable",
+                    "no token preview: " + x.getMessage()));
+        }
         if (p.rejected()) {
             int at = Utf8Offsets.charOffset(sample, p.rejectedAt());
             int end = at < sample.length() ? at + Utf8Offsets.width(sample, at) : at;
@@ -441,7 +447,11 @@ public final class SamplePreviews implements DocumentFeatures {
             return new At(b.get(), offset, null, r.message);
         }
         byte[] prefix = doc.text().substring(0, offset).getBytes(StandardCharsets.UTF_8);
-        return new At(b.get(), offset, preview(doc.uri(), r.constraint, prefix), null);
+        try {
+            return new At(b.get(), offset, preview(doc.uri(), r.constraint, prefix), null);
+        } catch (PreviewException x) {
+            return new At(b.get(), offset, null, "no token preview: " + x.getMessage());
+        }
     }
 
     /**
@@ -457,7 +467,13 @@ public final class SamplePreviews implements DocumentFeatures {
             from = last.cursor.fork();
             fromBytes = last.bytes.length;
         }
-        TokenPreview p = TokenPreview.compute(c, prefix, from, fromBytes);
+        TokenPreview p;
+        try {
+            p = TokenPreview.compute(c, prefix, from, fromBytes);
+        } catch (dev.espalier.earley.EarleyLimitException e) {
+            cursors.remove(uri);
+            throw new PreviewException("the text is too long for the parser's limits here (" + e.getMessage() + ")");
+        }
         if (!p.rejected()) {
             cursors.put(uri, new Reuse(c, prefix, from));
         }
