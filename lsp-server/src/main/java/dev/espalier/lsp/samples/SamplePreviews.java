@@ -442,6 +442,11 @@ public final class SamplePreviews implements DocumentFeatures {
             return null;
         }
         int offset = doc.offset(position);
+        String text = doc.text();
+        if (offset > 0 && offset < text.length() && Character.isHighSurrogate(text.charAt(offset - 1))
+                && Character.isLowSurrogate(text.charAt(offset))) {
+            offset--; // between the two halves of a character: its start
+        }
         Ready r = ready(doc.uri(), b.get());
         if (r.constraint == null) {
             return new At(b.get(), offset, null, r.message);
