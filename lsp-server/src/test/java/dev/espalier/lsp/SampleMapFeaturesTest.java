@@ -175,4 +175,49 @@ class SampleMapFeaturesTest {
             }
         }
     }
+
+    @Test
+    void whileThePreviewIsPreparedFeaturesSaySoAndDiagnosticsFollowWhenReady() throws Exception {
+        java.util.concurrent.CountDownLatch hold = new java.util.concurrent.CountDownLatch(1);
+        java.util.concurrent.ExecutorService threads = java.util.concurrent.Executors.newSingleThreadExecutor();
+        java.util.concurrent.Executor held = task -> threads.execute(() -> {
+            try {
+                hold.await();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+            task.run();
+        });
+        start().close(); // writes the vocabulary file
+        try (TestClient c = TestClient.start(ServerOptions.defaults().withDebounce(Duration.ZERO)
+                .withSamples(SamplePreviews.features(new PreviewCache(held))), ws)) {
+            Files.writeString(ws.resolve(SampleMap.FILE_NAME),
+                    map("{\"files\": \"tags/*.tag\", \"regex\": \"row [0-9]\", \"vocabulary\": \"letters.ranks\"}"));
+            String sample = uri("tags/d.tag");
+            c.open(sample, "row x");
+            List<Diagnostic> first = c.diagnostics(sample).getDiagnostics();
+            assertEquals(List.of("preview-preparing"), first.stream().map(SampleMapFeaturesTest::code).toList());
+            assertEquals(DiagnosticSeverity.Information, first.get(0).getSeverity());
+            java.util.concurrent.ExecutionException e = org.junit.jupiter.api.Assertions.assertThrows(
+                    java.util.concurrent.ExecutionException.class, () -> TestClient.get(c.remote.allowedTokens(
+                            new AllowedTokensParams(sample, new Position(0, 4), 10))));
+            org.eclipse.lsp4j.jsonrpc.ResponseErrorException re = org.junit.jupiter.api.Assertions.assertInstanceOf(
+                    org.eclipse.lsp4j.jsonrpc.ResponseErrorException.class, e.getCause());
+            assertEquals(org.eclipse.lsp4j.jsonrpc.messages.ResponseErrorCode.RequestFailed.getValue(),
+                    re.getResponseError().getCode());
+            assertTrue(re.getMessage().contains("preparing"), re.getMessage());
+            org.eclipse.lsp4j.CompletionList none = TestClient.get(c.remote.getTextDocumentService().completion(
+                    new org.eclipse.lsp4j.CompletionParams(new org.eclipse.lsp4j.TextDocumentIdentifier(sample),
+                            new Position(0, 4)))).getRight();
+            assertTrue(none.isIncomplete() && none.getItems().isEmpty());
+
+            hold.countDown();
+            List<Diagnostic> ready = SamplePreviewFeaturesTest.settled(c, sample);
+            assertEquals(List.of("leaves-language"), ready.stream().map(SampleMapFeaturesTest::code).toList());
+            assertEquals(new Range(new Position(0, 4), new Position(0, 5)), ready.get(0).getRange());
+        } finally {
+            hold.countDown();
+            threads.shutdownNow();
+        }
+    }
 }

@@ -22,7 +22,7 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CompletionException;
-import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executor;
 import java.util.concurrent.Executors;
 
 /**
@@ -44,11 +44,7 @@ public final class PreviewCache {
     /** Most compiled constraints kept at once. */
     public static final int MAX_CONSTRAINTS = 16;
 
-    private final ExecutorService worker = Executors.newSingleThreadExecutor(r -> {
-        Thread t = new Thread(r, "espalier-preview-compile");
-        t.setDaemon(true);
-        return t;
-    });
+    private final Executor worker;
     private final Map<Object, CompletableFuture<Vocabulary>> vocabularies = lru(MAX_VOCABULARIES);
     private final Map<Source, CompletableFuture<Constraint>> constraints = lru(MAX_CONSTRAINTS);
 
@@ -79,6 +75,20 @@ public final class PreviewCache {
         public PreviewException(String message) {
             super(message, null, false, false);
         }
+    }
+
+    /** A cache preparing on a daemon thread of its own. */
+    public PreviewCache() {
+        this(Executors.newSingleThreadExecutor(r -> {
+            Thread t = new Thread(r, "espalier-preview-compile");
+            t.setDaemon(true);
+            return t;
+        }));
+    }
+
+    /** A cache preparing on the given executor (a host's own threads). */
+    public PreviewCache(Executor worker) {
+        this.worker = java.util.Objects.requireNonNull(worker);
     }
 
     /** The key a vocabulary is cached under: its built-in name, or its file with size and time. */
