@@ -80,6 +80,13 @@ class SampleMapFeaturesTest {
             assertEquals(rangeOf(text, "\"row (\""), regex.getRange());
             assertTrue(regex.getMessage().contains("regular expression"), regex.getMessage());
 
+            // hover on the entry: what it maps, and that the pattern cannot be compiled
+            org.eclipse.lsp4j.Hover h = TestClient.get(c.remote.getTextDocumentService().hover(new org.eclipse.lsp4j.HoverParams(
+                    new org.eclipse.lsp4j.TextDocumentIdentifier(mapUri), rangeOf(text, "tags/*").getStart())));
+            String md = h.getContents().getRight().getValue();
+            assertTrue(md.contains("regex row ( on letters.ranks") && md.contains("`tags/*`")
+                    && md.contains("regular expression is not valid"), md);
+
             // the sample names the same problem, on its first line
             List<Diagnostic> sample = SamplePreviewFeaturesTest.openAndCheck(c, uri("tags/a.tag"), "row 1\nrow 2");
             assertEquals(1, sample.size(), sample.toString());
@@ -144,6 +151,12 @@ class SampleMapFeaturesTest {
             AllowedTokensResult r = TestClient.get(c.remote.allowedTokens(new AllowedTokensParams(sample,
                     new Position(0, 6), 50)));
             assertEquals(false, r.endAllowed(), "the open grammar wants a final !");
+            String mapText = Files.readString(ws.resolve(SampleMap.FILE_NAME));
+            c.open(uri(SampleMap.FILE_NAME), mapText);
+            org.eclipse.lsp4j.Hover h = TestClient.get(c.remote.getTextDocumentService().hover(new org.eclipse.lsp4j.HoverParams(
+                    new org.eclipse.lsp4j.TextDocumentIdentifier(uri(SampleMap.FILE_NAME)), rangeOf(mapText, "tree.abnf").getStart())));
+            String md = h.getContents().getRight().getValue();
+            assertTrue(md.contains("compiled: byte DFA") && md.contains("tokens in letters.ranks"), md);
         }
     }
 

@@ -219,6 +219,10 @@ public final class SamplePreviews implements DocumentFeatures {
 
     @Override
     public Hover hover(DocumentSnapshot doc, Position position) {
+        Optional<Path> file = doc.path();
+        if (file.isPresent() && isMapFile(file.get())) {
+            return entryHover(doc, file.get(), position);
+        }
         At at = at(doc, position);
         if (at == null) {
             return null;
@@ -323,6 +327,41 @@ public final class SamplePreviews implements DocumentFeatures {
             }
         }
         return out;
+    }
+
+    /** On an entry of the workspace file: what it maps and how far its preview is prepared. */
+    private Hover entryHover(DocumentSnapshot doc, Path file, Position position) {
+        SampleMap map = readMap(file, doc.text());
+        int offset = doc.offset(position);
+        for (Entry e : map.entries()) {
+            if (offset < doc.offset(e.range().getStart()) || offset > doc.offset(e.range().getEnd())) {
+                continue;
+            }
+            StringBuilder sb = new StringBuilder("**").append(e.describe()).append("**\n\nfiles: ");
+            sb.append(String.join(", ", e.globs().stream().map(g -> "`" + g.value() + "`").toList()));
+            String status;
+            try {
+                Source src = source(e);
+                CompletableFuture<Constraint> f = cache.peek(src);
+                if (f == null) {
+                    PreviewCache.checkWithoutVocabulary(src);
+                    status = "not compiled yet (it is, when a sample it maps is opened)";
+                } else if (!f.isDone()) {
+                    status = "being prepared";
+                } else if (f.isCompletedExceptionally()) {
+                    status = "cannot be compiled: " + failureOf(f);
+                } else {
+                    Constraint c = f.join();
+                    status = "compiled: " + c.describe() + "; " + String.format(Locale.ROOT, "%,d", c.vocabulary().tokenCount())
+                            + " tokens in " + c.vocabulary().name();
+                }
+            } catch (PreviewException x) {
+                status = x.getMessage();
+            }
+            sb.append("\n\n").append(status);
+            return new Hover(new MarkupContent(MarkupKind.MARKDOWN, sb.toString()), e.range());
+        }
+        return null;
     }
 
     /** The workspace file's parse, read again only when its text changed; a change refreshes every document. */
