@@ -31,7 +31,8 @@ import java.util.concurrent.Executors;
  * waits for a vocabulary to load or a grammar to compile.
  *
  * <p>Bounded: at most {@link #MAX_VOCABULARIES} vocabularies and {@link #MAX_CONSTRAINTS}
- * constraints are kept, the least recently used evicted first. A vocabulary file is known by its
+ * constraints are kept, the least recently used evicted first, each constraint's mask cache within
+ * {@link #MASK_CACHE_BYTES}. A vocabulary file is known by its
  * path, size and modification time, so a replaced file is loaded again; a constraint source by its
  * full text (the grammar or schema as the editor holds it, or the pattern).
  *
@@ -42,7 +43,15 @@ public final class PreviewCache {
     /** Most vocabularies kept at once. */
     public static final int MAX_VOCABULARIES = 3;
     /** Most compiled constraints kept at once. */
-    public static final int MAX_CONSTRAINTS = 16;
+    public static final int MAX_CONSTRAINTS = 8;
+    /**
+     * The mask-cache budget of each compiled constraint: a preview visits few states, and the
+     * constraints kept together stay within {@code MAX_CONSTRAINTS} times this (128 MiB).
+     */
+    public static final long MASK_CACHE_BYTES = 16L << 20;
+
+    private static final dev.espalier.mask.MaskSettings SETTINGS =
+            dev.espalier.mask.MaskSettings.defaults().withCacheBudget(MASK_CACHE_BYTES);
 
     private final Executor worker;
     private final Map<Object, CompletableFuture<Vocabulary>> vocabularies = lru(MAX_VOCABULARIES);
@@ -186,9 +195,9 @@ public final class PreviewCache {
     private static Constraint compile(Source s, Vocabulary v) {
         try {
             return switch (s.kind()) {
-                case REGEX -> Constraint.regex(s.text(), v);
-                case GRAMMAR -> Constraint.grammar(grammar(s), v);
-                case SCHEMA -> Constraint.grammar(schema(s), v);
+                case REGEX -> Constraint.regex(s.text(), v, SETTINGS);
+                case GRAMMAR -> Constraint.grammar(grammar(s), v, SETTINGS);
+                case SCHEMA -> Constraint.grammar(schema(s), v, SETTINGS);
             };
         } catch (PreviewException e) {
             throw e;
