@@ -2,6 +2,7 @@ package dev.espalier.cli;
 
 import dev.espalier.lsp.EspalierServer;
 import dev.espalier.lsp.ServerOptions;
+import dev.espalier.lsp.samples.SamplePreviews;
 import org.eclipse.lsp4j.jsonrpc.Launcher;
 import org.eclipse.lsp4j.services.LanguageClient;
 import picocli.CommandLine.Command;
@@ -34,7 +35,8 @@ final class ServeCommand implements Callable<Integer> {
         // the protocol owns standard output: anything else printed goes to standard error
         System.setOut(System.err);
         try {
-            ServerOptions options = ServerOptions.defaults().withDebounce(Duration.ofMillis(debounceMillis));
+            ServerOptions options = ServerOptions.defaults().withDebounce(Duration.ofMillis(debounceMillis))
+                    .withSamples(SamplePreviews.features());
             EspalierServer server = new EspalierServer(options);
             Launcher<LanguageClient> launcher = EspalierServer.launch(server, in, out);
             Future<Void> listening = launcher.startListening();
