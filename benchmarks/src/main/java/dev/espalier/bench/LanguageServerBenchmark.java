@@ -1,6 +1,9 @@
 package dev.espalier.bench;
 
+import dev.espalier.lsp.DocumentSnapshot;
 import dev.espalier.lsp.EspalierServer;
+import dev.espalier.lsp.GrammarFeatures;
+import dev.espalier.lsp.ServerContext;
 import dev.espalier.lsp.ServerOptions;
 import org.eclipse.lsp4j.ClientCapabilities;
 import org.eclipse.lsp4j.CompletionItem;
@@ -13,6 +16,7 @@ import org.eclipse.lsp4j.InitializeParams;
 import org.eclipse.lsp4j.InitializedParams;
 import org.eclipse.lsp4j.MessageActionItem;
 import org.eclipse.lsp4j.MessageParams;
+import org.eclipse.lsp4j.MessageType;
 import org.eclipse.lsp4j.Position;
 import org.eclipse.lsp4j.PublishDiagnosticsParams;
 import org.eclipse.lsp4j.Range;
@@ -42,8 +46,10 @@ import org.openjdk.jmh.annotations.Warmup;
 
 import java.io.PipedInputStream;
 import java.io.PipedOutputStream;
+import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
+import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
@@ -60,6 +66,8 @@ import java.util.concurrent.TimeUnit;
  *   <li>{@code hoverWarm}: hover on a regular rule of a checked document, asked before (the server
  *       keeps a rule's hover text per document version: facts, automaton size, examples); the first
  *       hover of a version also builds the rule's byte automaton.</li>
+ *   <li>{@code checkOnly}: the grammar features' diagnostics of a new snapshot called directly, no
+ *       JSON-RPC: the share of {@code diagnosticsAfterChange} that is analysis.</li>
  * </ul>
  * Run: {@code java -jar benchmarks/target/benchmarks.jar LanguageServer}.
  */
@@ -82,6 +90,8 @@ public class LanguageServerBenchmark {
     private int version;
     private Position bodyPosition;
     private Position hoverPosition;
+    private GrammarFeatures direct;
+    private String text;
 
     /**
      * A grammar of orchard records: rule {@code i} chooses among a tagged literal, a digit run,
@@ -121,7 +131,35 @@ public class LanguageServerBenchmark {
         init.setCapabilities(new ClientCapabilities());
         remote.initialize(init).get(60, TimeUnit.SECONDS);
         remote.initialized(new InitializedParams());
-        String text = grammar(rules);
+        text = grammar(rules);
+        direct = new GrammarFeatures(new ServerContext() {
+            @Override
+            public List<Path> workspaceFolders() {
+                return List.of();
+            }
+
+            @Override
+            public Optional<DocumentSnapshot> openDocument(String uri) {
+                return Optional.empty();
+            }
+
+            @Override
+            public List<DocumentSnapshot> openDocuments() {
+                return List.of();
+            }
+
+            @Override
+            public void log(MessageType type, String message) {
+            }
+
+            @Override
+            public void refreshDiagnostics() {
+            }
+
+            @Override
+            public void refreshDiagnostics(String uri) {
+            }
+        });
         version = 1;
         CompletableFuture<PublishDiagnosticsParams> first = expect(version);
         remote.getTextDocumentService().didOpen(new DidOpenTextDocumentParams(new TextDocumentItem(URI, "abnf", version, text)));
@@ -166,6 +204,12 @@ public class LanguageServerBenchmark {
                 new VersionedTextDocumentIdentifier(URI, version),
                 List.of(new TextDocumentContentChangeEvent(new Range(new Position(1, 17), new Position(1, 18)), digit))));
         return f.get(60, TimeUnit.SECONDS);
+    }
+
+    /** Diagnostics of a new snapshot, computed in the calling thread. */
+    @Benchmark
+    public List<org.eclipse.lsp4j.Diagnostic> checkOnly() {
+        return direct.diagnostics(new DocumentSnapshot(URI, "abnf", ++version, text));
     }
 
     /** Completion in a rule body of the checked document. */

@@ -111,9 +111,13 @@ final class TestClient implements LanguageClient, AutoCloseable {
     }
 
     void open(String uri, String text) {
+        open(uri, DocumentSnapshot.hasExtension(uri, ".abnf") ? "abnf" : "plaintext", text);
+    }
+
+    void open(String uri, String languageId, String text) {
         versions.put(uri, 1);
         remote.getTextDocumentService().didOpen(new DidOpenTextDocumentParams(
-                new TextDocumentItem(uri, "abnf", 1, text)));
+                new TextDocumentItem(uri, languageId, 1, text)));
     }
 
     /** Replaces a range; returns the new version. */
