@@ -168,8 +168,7 @@ public final class SamplePreviews implements DocumentFeatures {
             String partial = !end && Utf8Offsets.wholeCharacters(bytes) < bytes.length
                     ? " · ends inside a UTF-8 character: only its whole characters are inserted" : "";
             item.setDetail("token " + id + " · " + tally + partial);
-            item.setSortText(String.format(Locale.ROOT, "%07d", items.size()));
-            item.setFilterText(insert);
+            item.setSortText(sortKey(items.size()));
             item.setTextEdit(Either.forLeft(new TextEdit(here, insert)));
             JsonObject data = new JsonObject();
             data.addProperty("id", id);
@@ -463,6 +462,12 @@ public final class SamplePreviews implements DocumentFeatures {
             cursors.put(uri, new Reuse(c, prefix, from));
         }
         return p;
+    }
+
+    /** A key that sorts as the list is ordered: the index, zero-padded. */
+    private static String sortKey(int index) {
+        String n = Integer.toString(index);
+        return "0000000".substring(Math.min(7, n.length())) + n;
     }
 
     private static String tally(TokenPreview p) {

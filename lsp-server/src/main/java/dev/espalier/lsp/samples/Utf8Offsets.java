@@ -59,17 +59,40 @@ final class Utf8Offsets {
         return c < 0x800 ? 2 : 3;
     }
 
-    /** The length of the longest leading part of {@code bytes} that is whole, well-formed UTF-8 characters. */
+    /**
+     * The length of the longest leading part of {@code bytes} that is whole, well-formed UTF-8
+     * characters (RFC 3629: no overlong forms, no surrogates, nothing above U+10FFFF).
+     */
     static int wholeCharacters(byte[] bytes) {
         int i = 0;
         while (i < bytes.length) {
             int b = bytes[i] & 0xFF;
-            int len = b < 0x80 ? 1 : b >= 0xC2 && b <= 0xDF ? 2 : b >= 0xE0 && b <= 0xEF ? 3 : b >= 0xF0 && b <= 0xF4 ? 4 : 0;
-            if (len == 0 || i + len > bytes.length) {
+            int len;
+            int lo = 0x80;
+            int hi = 0xBF;
+            if (b < 0x80) {
+                len = 1;
+            } else if (b >= 0xC2 && b <= 0xDF) {
+                len = 2;
+            } else if (b >= 0xE0 && b <= 0xEF) {
+                len = 3;
+                lo = b == 0xE0 ? 0xA0 : 0x80;
+                hi = b == 0xED ? 0x9F : 0xBF;
+            } else if (b >= 0xF0 && b <= 0xF4) {
+                len = 4;
+                lo = b == 0xF0 ? 0x90 : 0x80;
+                hi = b == 0xF4 ? 0x8F : 0xBF;
+            } else {
                 return i;
             }
-            if (!dev.espalier.vocab.TokenText.isValidUtf8(java.util.Arrays.copyOfRange(bytes, i, i + len))) {
+            if (i + len > bytes.length) {
                 return i;
+            }
+            for (int k = 1; k < len; k++) {
+                int c = bytes[i + k] & 0xFF;
+                if (c < (k == 1 ? lo : 0x80) || c > (k == 1 ? hi : 0xBF)) {
+                    return i;
+                }
             }
             i += len;
         }

@@ -1,0 +1,1 @@
+Row 04, tree 17: Frostkeeper on RS-
