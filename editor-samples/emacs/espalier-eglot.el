@@ -51,18 +51,21 @@ lists the tokens the constraint allows next."
                       (and (boundp 'eglot-server-programs) eglot-server-programs)))))
 
 (defun espalier--glob-regexp (glob)
-  "A regexp for GLOB.
-* and ? stay in one folder, ** crosses folders, {a,b} is a choice."
+  "A regexp for GLOB, read as the server reads them (java.nio globs).
+* and ? stay in one folder, ** crosses folders, {a,b} is a choice,
+[...] is a class ([!...] negated)."
   (let ((i 0) (n (length glob)) (out "\\`") (depth 0))
     (while (< i n)
       (let ((c (aref glob i)))
         (cond
          ((and (eq c ?*) (< (1+ i) n) (eq (aref glob (1+ i)) ?*))
-          (if (and (< (+ i 2) n) (eq (aref glob (+ i 2)) ?/))
-              (setq out (concat out "\\(?:.*/\\)?") i (+ i 2))
-            (setq out (concat out ".*") i (1+ i))))
+          (setq out (concat out ".*") i (1+ i)))
          ((eq c ?*) (setq out (concat out "[^/]*")))
          ((eq c ??) (setq out (concat out "[^/]")))
+         ((and (eq c ?\[) (string-match "\\[\\(!?\\)\\([^]]*\\)\\]" glob i) (= (match-beginning 0) i))
+          (setq out (concat out "[" (if (string-empty-p (match-string 1 glob)) "" "^")
+                            (match-string 2 glob) "]")
+                i (1- (match-end 0))))
          ((eq c ?{) (setq out (concat out "\\(?:") depth (1+ depth)))
          ((and (eq c ?}) (> depth 0)) (setq out (concat out "\\)") depth (1- depth)))
          ((and (eq c ?,) (> depth 0)) (setq out (concat out "\\|")))

@@ -55,8 +55,9 @@ function M.find_sample_map(path)
   end
 end
 
---- A Vim regular expression (very magic) for a glob: * and ? stay inside one folder, ** crosses
---- folders ("**/" may match nothing), {a,b} is a choice, [...] a class ([!...] negated).
+--- A Vim regular expression (very magic) for a glob, read as the server reads the globs of
+--- espalier-samples.json (java.nio's glob syntax): * and ? stay inside one folder, ** crosses
+--- folders, {a,b} is a choice, [...] a class ([!...] negated).
 function M.glob_to_regex(glob)
   local out = { '\\v^' }
   local i, n, depth = 1, #glob, 0
@@ -64,13 +65,8 @@ function M.glob_to_regex(glob)
     local c = glob:sub(i, i)
     if c == '*' then
       if glob:sub(i + 1, i + 1) == '*' then
-        if glob:sub(i + 2, i + 2) == '/' then
-          table.insert(out, '(.*/)?')
-          i = i + 2
-        else
-          table.insert(out, '.*')
-          i = i + 1
-        end
+        table.insert(out, '.*')
+        i = i + 1
       else
         table.insert(out, '[^/]*')
       end

@@ -121,6 +121,61 @@ class NeovimEndToEndTest {
         checkSample(result.getAsJsonObject("sample"), workspace.resolve("work-order.abnf"));
     }
 
+    /**
+     * The Neovim set-up decides which files are samples from the globs of espalier-samples.json; it
+     * must read them as the server does (java.nio's glob syntax, {@link java.nio.file.FileSystem#getPathMatcher}).
+     */
+    @Test
+    void neovimReadsSampleGlobsLikeTheServer(@TempDir Path dir) throws Exception {
+        assumeTrue(nvimVersion() != null, "nvim is not on the PATH (install the Debian package neovim to run this test)");
+        List<String> globs = List.of("orders/*.txt", "**/*.txt", "orders/**", "*.txt", "{orders,tags}/*.{txt,tag}",
+                "row-??.tag", "[a-c]*.json", "[!a-c]*.json", "reports/tree-[0-9]*.json", "a.b+c(1).txt");
+        List<String> paths = List.of("orders/a.txt", "a.txt", "orders/sub/a.txt", "tags/row-04.tag", "row-04.tag",
+                "row-4.tag", "b.json", "d.json", "orders/x.tag", "reports/tree-0042.json", "reports/tree-x.json",
+                "a.b+c(1).txt", "aXb+c(1).txt", "orders/deep/er/x.txt");
+        JsonArray cases = new JsonArray();
+        List<Boolean> expected = new ArrayList<>();
+        for (String glob : globs) {
+            java.nio.file.PathMatcher matcher = java.nio.file.FileSystems.getDefault().getPathMatcher("glob:" + glob);
+            for (String path : paths) {
+                JsonArray c = new JsonArray();
+                c.add(glob);
+                c.add(path);
+                cases.add(c);
+                expected.add(matcher.matches(Path.of(path)));
+            }
+        }
+        assertTrue(expected.contains(true) && expected.contains(false));
+        Path casesFile = Files.writeString(dir.resolve("cases.json"), cases.toString());
+        Path script = dir.resolve("globs.lua");
+        try (InputStream in = Objects.requireNonNull(getClass().getResourceAsStream("neovim-globs.lua"))) {
+            Files.copy(in, script);
+        }
+        Path resultFile = dir.resolve("result.json");
+        ProcessBuilder pb = new ProcessBuilder("nvim", "--headless", "--clean", "-n", "-c",
+                "luafile " + script.toString().replace(" ", "\\ "))
+                .directory(dir.toFile()).redirectErrorStream(true).redirectOutput(dir.resolve("nvim.log").toFile());
+        pb.environment().put("ESPALIER_NVIM_CONFIG", Path.of("..").toAbsolutePath().normalize()
+                .resolve("editor-samples/neovim").toString());
+        pb.environment().put("ESPALIER_GLOB_CASES", casesFile.toString());
+        pb.environment().put("ESPALIER_RESULT", resultFile.toString());
+        Process nvim = pb.start();
+        if (!nvim.waitFor(20, TimeUnit.SECONDS)) {
+            nvim.destroyForcibly();
+        }
+        String log = Files.readString(dir.resolve("nvim.log"));
+        assertTrue(Files.isRegularFile(resultFile), "no result; nvim said:\n" + log);
+        JsonElement answers = JsonParser.parseString(Files.readString(resultFile));
+        assertTrue(answers.isJsonArray(), answers + "\n" + log);
+        List<String> disagreements = new ArrayList<>();
+        for (int i = 0; i < expected.size(); i++) {
+            if (answers.getAsJsonArray().get(i).getAsBoolean() != expected.get(i)) {
+                disagreements.add(cases.get(i) + ": the server says " + expected.get(i));
+            }
+        }
+        assertEquals(List.of(), disagreements);
+    }
+
     /** The diagnostics equal AbnfCheck's on the same text; completion offers the file's rules. */
     private static void checkGrammar(JsonObject got) {
         assertEquals("abnf", got.get("filetype").getAsString());

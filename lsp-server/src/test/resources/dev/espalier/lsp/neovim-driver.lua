@@ -3,17 +3,18 @@
 -- completion list in each and for espalier/allowedTokens in the sample, and writes what the editor
 -- received to a JSON file. Every input comes from environment variables (see the test).
 local env = vim.env
-local started = vim.loop.now()
+local uv = vim.uv or vim.loop
+local started = uv.now()
 local result = { millis = {} }
 result.nvim = tostring(vim.version().major) .. '.' .. vim.version().minor .. '.' .. vim.version().patch
-local deadline = vim.loop.now() + tonumber(env.ESPALIER_TIMEOUT_MS)
+local deadline = uv.now() + tonumber(env.ESPALIER_TIMEOUT_MS)
 
 local function remaining()
-  return math.max(0, deadline - vim.loop.now())
+  return math.max(0, deadline - uv.now())
 end
 
 local function mark(what)
-  result.millis[what] = vim.loop.now() - started
+  result.millis[what] = uv.now() - started
 end
 
 local function finish(code)
@@ -40,7 +41,8 @@ local function open(path)
   vim.cmd('edit ' .. vim.fn.fnameescape(path))
   local bufnr = vim.api.nvim_get_current_buf()
   local attached = vim.wait(remaining(), function()
-    return next(vim.lsp.buf_get_clients(bufnr)) ~= nil
+    local clients = vim.lsp.get_clients and vim.lsp.get_clients({ bufnr = bufnr }) or vim.lsp.buf_get_clients(bufnr)
+    return next(clients) ~= nil
   end, 20)
   assert(attached, 'no language client attached to ' .. path)
   return bufnr, vim.uri_from_bufnr(bufnr)
