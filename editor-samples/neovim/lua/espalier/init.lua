@@ -274,9 +274,12 @@ function M.setup(opts)
     group = group,
     pattern = '*',
     callback = function(args)
-      if vim.bo[args.buf].buftype == '' then
-        mark_sample(args.buf)
-      end
+      -- after the other BufRead handlers: filetype detection may come later in the list
+      vim.schedule(function()
+        if vim.api.nvim_buf_is_valid(args.buf) and vim.bo[args.buf].buftype == '' then
+          mark_sample(args.buf)
+        end
+      end)
     end,
   })
   vim.api.nvim_create_user_command('EspalierAllowedTokens', function(c)
