@@ -69,13 +69,15 @@ import java.util.concurrent.TimeUnit;
  *   <li>{@code checkOnly}: the grammar features' diagnostics of a new snapshot called directly, no
  *       JSON-RPC: the share of {@code diagnosticsAfterChange} that is analysis.</li>
  * </ul>
+ * The warm-up is long on purpose: one check of 2,000 rules runs a lot of code once, so the JIT needs
+ * many seconds before the figures settle (on a busy machine, more).
  * Run: {@code java -jar benchmarks/target/benchmarks.jar LanguageServer}.
  */
 @State(Scope.Benchmark)
 @BenchmarkMode(Mode.SampleTime)
 @OutputTimeUnit(TimeUnit.MILLISECONDS)
-@Warmup(iterations = 3, time = 2)
-@Measurement(iterations = 5, time = 2)
+@Warmup(iterations = 6, time = 4)
+@Measurement(iterations = 5, time = 3)
 @Fork(1)
 public class LanguageServerBenchmark {
 
