@@ -105,8 +105,9 @@ public class SamplePreviewBenchmark {
     static String vocabulary() {
         Path llama = Path.of(System.getProperty("espalier.shared", "../shared"), "vocab", "llama3-tokenizer.json.gz")
                 .toAbsolutePath().normalize();
-        if (!Files.isRegularFile(llama)) {
-            llama = library().getParent().resolve("../shared/vocab/llama3-tokenizer.json.gz").normalize();
+        // shared/ sits beside the main checkout; worktrees are one or two levels further down
+        for (Path dir = library().getParent(); dir != null && !Files.isRegularFile(llama); dir = dir.getParent()) {
+            llama = dir.resolve("shared/vocab/llama3-tokenizer.json.gz");
         }
         return Files.isRegularFile(llama) ? llama.toString() : "o200k";
     }
