@@ -54,7 +54,11 @@ public final class RegularRules {
         return of(prefix, automaton, SIZE_BUDGET);
     }
 
-    /** As {@link #of(String, Automaton)} with another elimination budget (0: one rule per state). */
+    /**
+     * As {@link #of(String, Automaton)} with another elimination budget: positive, eliminate all
+     * states within it or else fall back to the non-growing eliminations; 0, only the non-growing
+     * eliminations; negative, none (one rule per state).
+     */
     static RegularFragment of(String prefix, Automaton automaton, int budget) {
         CodePointDfa dfa = CodePointDfa.of(automaton);
         if (dfa.size() == 0) {
@@ -62,9 +66,14 @@ public final class RegularRules {
         }
         // all states eliminated within the budget: one expression; otherwise only the eliminations
         // that do not grow the expressions, and one rule per remaining state
-        Elimination full = new Elimination(dfa, budget);
-        if (full.eliminateAll()) {
-            return full.fragment(prefix);
+        if (budget < 0) {
+            return new Elimination(dfa, 0).fragment(prefix);
+        }
+        if (budget > 0) {
+            Elimination full = new Elimination(dfa, budget);
+            if (full.eliminateAll()) {
+                return full.fragment(prefix);
+            }
         }
         Elimination cheap = new Elimination(dfa, 0);
         cheap.eliminateAll();
