@@ -3,11 +3,13 @@ package dev.espalier.schema;
 import dev.espalier.abnf.Abnf;
 import dev.espalier.abnf.AbnfResult;
 import dev.espalier.abnf.ImportResolver;
+import dev.espalier.automaton.CharAutomata;
 import dev.espalier.grammar.Diagnostic;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
 import dev.espalier.grammar.Span;
+import dk.brics.automaton.Automaton;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
@@ -15,12 +17,14 @@ import java.nio.charset.StandardCharsets;
 import java.util.ArrayDeque;
 import java.util.ArrayList;
 import java.util.Deque;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.Set;
+import java.util.concurrent.ConcurrentHashMap;
 
 /**
  * The string formats of JSON Schema that are enforced, built from the grammar library.
@@ -55,6 +59,10 @@ public final class Formats {
             "time", "leap seconds only as 23:59:60 with a zero offset",
             "email", "no quoted local parts or general address literals; length limits not enforced",
             "hostname", "total length (253) not enforced; A-labels not decoded (Punycode/IDNA validity unchecked)");
+
+    /** State limit when compiling a format to an automaton (the largest, uri-reference, needs far fewer). */
+    private static final int AUTOMATON_LIMIT = 100_000;
+    private static final Map<String, Automaton> AUTOMATA = new ConcurrentHashMap<>();
 
     private Formats() {
     }
@@ -96,6 +104,25 @@ public final class Formats {
             rules.add(Rule.of(prefix + "-" + r.name(), renamed(prefix, r.body())));
         }
         return Optional.of(new RegularFragment(Expr.ref(prefix + "-" + g.rule(start).orElseThrow().name()), rules));
+    }
+
+    /**
+     * The content of a string of the given format as a minimal dk.brics automaton over chars (the
+     * language of {@link #content}), for callers that intersect it with other string constraints.
+     * Built once per format.
+     *
+     * @return empty when the format is not one of {@link #names()}
+     */
+    public static Optional<Automaton> automaton(String format) {
+        if (!NAMES.contains(format)) {
+            return Optional.empty();
+        }
+        return Optional.of(AUTOMATA.computeIfAbsent(format, f -> {
+            RegularFragment frag = content("format", f).orElseThrow();
+            Map<String, Expr> bodies = new HashMap<>();
+            frag.rules().forEach(r -> bodies.put(r.key(), r.body()));
+            return CharAutomata.compile(frag.body(), n -> bodies.get(Grammar.key(n)), AUTOMATON_LIMIT);
+        }).clone());
     }
 
     /**

@@ -6,8 +6,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
-import dev.espalier.automaton.CharAutomata;
-import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
 import dk.brics.automaton.Automaton;
 import java.io.InputStream;
@@ -58,6 +56,7 @@ class FormatsTest {
                 "uri", "uri-reference"), new ArrayList<>(Formats.names()));
         assertTrue(Formats.content("f", "color").isEmpty());
         assertTrue(Formats.content("f", "Date").isEmpty());
+        assertTrue(Formats.automaton("color").isEmpty());
         for (String name : Formats.names()) {
             RegularFragment f = Formats.content("orchard-graft", name).orElseThrow();
             for (Rule r : f.rules()) {
@@ -82,9 +81,7 @@ class FormatsTest {
     @Test
     void everyFormatCompilesToAnAutomaton() throws Exception {
         for (String name : Formats.names()) {
-            RegularFragment f = Formats.content("fmt", name).orElseThrow();
-            Grammar g = FragmentRecognizer.grammar(f);
-            Automaton a = CharAutomata.compile(f.body(), n -> g.rule(n).map(Rule::body).orElse(null), 100_000);
+            Automaton a = Formats.automaton(name).orElseThrow();
             for (Case c : suite(name)) {
                 assertEquals(format(name).test(c.data()), a.run(c.data()), () -> name + ": " + c.data());
             }
