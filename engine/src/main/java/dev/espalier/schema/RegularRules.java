@@ -60,7 +60,16 @@ public final class RegularRules {
      * eliminations; negative, none (one rule per state).
      */
     static RegularFragment of(String prefix, Automaton automaton, int budget) {
-        CodePointDfa dfa = CodePointDfa.of(automaton);
+        return of(prefix, automaton, budget, false);
+    }
+
+    /** As {@link #of(String, Automaton)}, skipping minimisation for an automaton known to be minimal. */
+    static RegularFragment ofMinimal(String prefix, Automaton minimal) {
+        return of(prefix, minimal, SIZE_BUDGET, true);
+    }
+
+    private static RegularFragment of(String prefix, Automaton automaton, int budget, boolean minimal) {
+        CodePointDfa dfa = CodePointDfa.of(automaton, minimal);
         if (dfa.size() == 0) {
             return new RegularFragment(Expr.choice(), List.of());
         }
@@ -91,9 +100,14 @@ public final class RegularRules {
             return accept.length;
         }
 
-        static CodePointDfa of(Automaton input) {
-            Automaton a = input.intersection(wellFormedUtf16());
-            a.minimize();
+        static CodePointDfa of(Automaton input, boolean minimal) {
+            Automaton a;
+            if (minimal && input.isDeterministic() && !touchesSurrogates(input)) {
+                a = input; // only read
+            } else {
+                a = touchesSurrogates(input) ? input.intersection(wellFormedUtf16()) : input.clone();
+                a.minimize();
+            }
             State init = a.getInitialState();
             // number the states reached by code points (intermediate after-high-surrogate states are skipped)
             Map<State, Integer> id = new IdentityHashMap<>();
@@ -208,6 +222,17 @@ public final class RegularRules {
                 l.add(lo);
                 l.add(hi);
             }
+        }
+
+        private static boolean touchesSurrogates(Automaton a) {
+            for (State s : a.getStates()) {
+                for (Transition t : s.getTransitions()) {
+                    if (t.getMax() >= 0xD800 && t.getMin() <= 0xDFFF) {
+                        return true;
+                    }
+                }
+            }
+            return false;
         }
 
         /** Strings of Java chars that are well-formed UTF-16 (every surrogate in a proper pair). */
@@ -520,6 +545,6 @@ public final class RegularRules {
 
     /** Used by tests: the state count of the minimal code-point automaton. */
     static int minimalStates(Automaton a) {
-        return CodePointDfa.of(a).size();
+        return CodePointDfa.of(a, false).size();
     }
 }
