@@ -48,6 +48,9 @@ import java.util.concurrent.ConcurrentHashMap;
  *       needs about 30,000 states); A-labels ({@code xn--}) are not decoded, so Punycode and IDNA
  *       validity are not checked.</li>
  * </ul>
+ * Stricter than the letter of the ABNF: duration designators ({@code P}, {@code Y}, {@code T}, ...) are
+ * upper case only, as ISO 8601 writes them (RFC 5234 would read the quoted strings of RFC 3339
+ * Appendix A case-insensitively); e-mail address literals take IPv4 octets without leading zeros.
  */
 public final class Formats {
 
