@@ -23,11 +23,13 @@ import java.util.TreeMap;
  * encoding and are dropped) and minimised; a high-surrogate step followed by a low-surrogate step
  * becomes one step over a range of supplementary code points. The minimal automaton over code points
  * is then written as a right-linear system (one equation per state) and states are eliminated one by
- * one (Brzozowski–McCluskey state elimination; a self-loop becomes a repetition), cheapest first,
- * while the expressions stay within {@value #SIZE_BUDGET} nodes. When every state can be eliminated
- * the fragment is one expression with no helper rules (and no recursion, so the grammar's lexical
- * layer turns it into a byte automaton); otherwise each remaining state becomes a rule
- * {@code prefix-sN} whose body refers to other state rules only in tail position (right-linear).
+ * one (Brzozowski–McCluskey state elimination; a self-loop becomes a repetition), cheapest first.
+ * When every state can be eliminated with the expressions within {@value #SIZE_BUDGET} nodes, the
+ * fragment is one expression with no helper rules (and no recursion, so the grammar's lexical layer
+ * turns it into a byte automaton). Otherwise only the eliminations that do not grow the expressions
+ * are made, and each remaining state becomes a rule {@code prefix-sN} whose body refers to other
+ * state rules only in tail position (right-linear); a cycle among them is recursion, which the
+ * grammar's Earley layer handles.
  */
 public final class RegularRules {
 
@@ -543,8 +545,4 @@ public final class RegularRules {
         return new Sized(Expr.repeat(body.expr(), 0, Expr.UNBOUNDED), body.size() + 1);
     }
 
-    /** Used by tests: the state count of the minimal code-point automaton. */
-    static int minimalStates(Automaton a) {
-        return CodePointDfa.of(a, false).size();
-    }
 }
