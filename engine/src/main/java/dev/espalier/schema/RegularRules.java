@@ -544,5 +544,4 @@ public final class RegularRules {
     private static Sized star(Sized body) {
         return new Sized(Expr.repeat(body.expr(), 0, Expr.UNBOUNDED), body.size() + 1);
     }
-
 }
