@@ -1,20 +1,525 @@
 package dev.espalier.schema;
 
+import dev.espalier.grammar.CodePointSet;
+import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.Rule;
+import dev.espalier.grammar.Span;
 import dk.brics.automaton.Automaton;
+import dk.brics.automaton.State;
+import dk.brics.automaton.Transition;
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.Deque;
+import java.util.IdentityHashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.TreeMap;
 
-/** Regular languages given as automata, written back as grammar rules. */
+/**
+ * Regular languages given as automata, written back as grammar rules.
+ *
+ * <p>The automaton is first restricted to well-formed UTF-16 (lone surrogates have no UTF-8
+ * encoding and are dropped) and minimised; a high-surrogate step followed by a low-surrogate step
+ * becomes one step over a range of supplementary code points. The minimal automaton over code points
+ * is then written as a right-linear system (one equation per state) and states are eliminated one by
+ * one (Brzozowski–McCluskey state elimination; a self-loop becomes a repetition), cheapest first,
+ * while the expressions stay within {@value #SIZE_BUDGET} nodes. When every state can be eliminated
+ * the fragment is one expression with no helper rules (and no recursion, so the grammar's lexical
+ * layer turns it into a byte automaton); otherwise each remaining state becomes a rule
+ * {@code prefix-sN} whose body refers to other state rules only in tail position (right-linear).
+ */
 public final class RegularRules {
+
+    /** Largest total expression size (nodes) that state elimination may produce. */
+    public static final int SIZE_BUDGET = 4_000;
+
+    /** Automata with more states than this skip state elimination and become one rule per state. */
+    public static final int ELIMINATION_STATES = 1_500;
+
+    private static final Expr EMPTY_STRING = Expr.seq();
+
     private RegularRules() {
     }
 
     /**
      * Right-linear rules (one per state) for the language of an automaton over code points as built
      * by {@link dev.espalier.automaton.CharAutomata} (UTF-16 code units, surrogate pairs for
-     * supplementary characters).
+     * supplementary characters). Where the automaton is small enough, states are eliminated into one
+     * expression (see the class documentation); the language is the same either way.
      *
      * @param prefix prefix of every helper rule name
      */
     public static RegularFragment of(String prefix, Automaton automaton) {
-        throw new UnsupportedOperationException("not yet written");
+        return of(prefix, automaton, SIZE_BUDGET);
+    }
+
+    /**
+     * As {@link #of(String, Automaton)} with another elimination budget: positive, eliminate all
+     * states within it or else fall back to the non-growing eliminations; 0, only the non-growing
+     * eliminations; negative, none (one rule per state).
+     */
+    static RegularFragment of(String prefix, Automaton automaton, int budget) {
+        CodePointDfa dfa = CodePointDfa.of(automaton);
+        if (dfa.size() == 0) {
+            return new RegularFragment(Expr.choice(), List.of());
+        }
+        // all states eliminated within the budget: one expression; otherwise only the eliminations
+        // that do not grow the expressions, and one rule per remaining state
+        if (budget < 0) {
+            return new Elimination(dfa, 0).fragment(prefix);
+        }
+        if (budget > 0) {
+            Elimination full = new Elimination(dfa, budget);
+            if (full.eliminateAll()) {
+                return full.fragment(prefix);
+            }
+        }
+        Elimination cheap = new Elimination(dfa, 0);
+        cheap.eliminateAll();
+        return cheap.fragment(prefix);
+    }
+
+    // ------------------------------------------------------------------ code-point automaton
+
+    /**
+     * A minimal trimmed deterministic automaton over code points: state 0 is the start; each state's
+     * outgoing steps are grouped by target.
+     */
+    record CodePointDfa(List<Map<Integer, CodePointSet>> out, boolean[] accept) {
+        int size() {
+            return accept.length;
+        }
+
+        static CodePointDfa of(Automaton input) {
+            Automaton a = input.intersection(wellFormedUtf16());
+            a.minimize();
+            State init = a.getInitialState();
+            // number the states reached by code points (intermediate after-high-surrogate states are skipped)
+            Map<State, Integer> id = new IdentityHashMap<>();
+            List<State> order = new ArrayList<>();
+            List<Map<Integer, List<Integer>>> ranges = new ArrayList<>();
+            Deque<State> queue = new ArrayDeque<>();
+            id.put(init, 0);
+            order.add(init);
+            queue.add(init);
+            while (!queue.isEmpty()) {
+                State s = queue.poll();
+                Map<Integer, List<Integer>> byTarget = new TreeMap<>();
+                for (Transition t : s.getSortedTransitions(false)) {
+                    int min = t.getMin();
+                    int max = t.getMax();
+                    add(byTarget, target(t.getDest(), id, order, queue), min, Math.min(max, 0xD7FF));
+                    add(byTarget, target(t.getDest(), id, order, queue), Math.max(min, 0xE000), max);
+                    int h1 = Math.max(min, 0xD800);
+                    int h2 = Math.min(max, 0xDBFF);
+                    if (h1 > h2) {
+                        continue;
+                    }
+                    for (Transition u : t.getDest().getTransitions()) {
+                        int l1 = Math.max(u.getMin(), 0xDC00);
+                        int l2 = Math.min(u.getMax(), 0xDFFF);
+                        if (l1 > l2) {
+                            continue;
+                        }
+                        int to = target(u.getDest(), id, order, queue);
+                        if (l1 == 0xDC00 && l2 == 0xDFFF) {
+                            add(byTarget, to, Character.toCodePoint((char) h1, (char) l1),
+                                    Character.toCodePoint((char) h2, (char) l2));
+                        } else {
+                            for (int h = h1; h <= h2; h++) {
+                                add(byTarget, to, Character.toCodePoint((char) h, (char) l1),
+                                        Character.toCodePoint((char) h, (char) l2));
+                            }
+                        }
+                    }
+                }
+                ranges.add(byTarget);
+            }
+            int n = order.size();
+            boolean[] accept = new boolean[n];
+            for (int i = 0; i < n; i++) {
+                accept[i] = order.get(i).isAccept();
+            }
+            // trim: keep states from which acceptance is reachable
+            boolean[] live = accept.clone();
+            for (boolean changed = true; changed; ) {
+                changed = false;
+                for (int i = 0; i < n; i++) {
+                    if (!live[i]) {
+                        for (int t : ranges.get(i).keySet()) {
+                            if (live[t]) {
+                                live[i] = true;
+                                changed = true;
+                                break;
+                            }
+                        }
+                    }
+                }
+            }
+            if (!live[0]) {
+                return new CodePointDfa(List.of(), new boolean[0]);
+            }
+            // renumber live states reachable from the start, breadth first
+            int[] renum = new int[n];
+            java.util.Arrays.fill(renum, -1);
+            List<Integer> kept = new ArrayList<>();
+            renum[0] = 0;
+            kept.add(0);
+            for (int k = 0; k < kept.size(); k++) {
+                for (int t : ranges.get(kept.get(k)).keySet()) {
+                    if (live[t] && renum[t] < 0) {
+                        renum[t] = kept.size();
+                        kept.add(t);
+                    }
+                }
+            }
+            List<Map<Integer, CodePointSet>> out = new ArrayList<>();
+            boolean[] acc = new boolean[kept.size()];
+            for (int k = 0; k < kept.size(); k++) {
+                int old = kept.get(k);
+                acc[k] = accept[old];
+                Map<Integer, CodePointSet> m = new LinkedHashMap<>();
+                for (Map.Entry<Integer, List<Integer>> e : ranges.get(old).entrySet()) {
+                    if (renum[e.getKey()] >= 0) {
+                        int[] pairs = e.getValue().stream().mapToInt(Integer::intValue).toArray();
+                        m.put(renum[e.getKey()], CodePointSet.ofRanges(pairs));
+                    }
+                }
+                out.add(m);
+            }
+            return new CodePointDfa(out, acc);
+        }
+
+        private static int target(State s, Map<State, Integer> id, List<State> order, Deque<State> queue) {
+            Integer i = id.get(s);
+            if (i == null) {
+                i = order.size();
+                id.put(s, i);
+                order.add(s);
+                queue.add(s);
+            }
+            return i;
+        }
+
+        private static void add(Map<Integer, List<Integer>> byTarget, int target, int lo, int hi) {
+            if (lo <= hi) {
+                List<Integer> l = byTarget.computeIfAbsent(target, k -> new ArrayList<>());
+                l.add(lo);
+                l.add(hi);
+            }
+        }
+
+        /** Strings of Java chars that are well-formed UTF-16 (every surrogate in a proper pair). */
+        static Automaton wellFormedUtf16() {
+            State s = new State();
+            State high = new State();
+            s.setAccept(true);
+            s.addTransition(new Transition('\u0000', '\uD7FF', s));
+            s.addTransition(new Transition('\uE000', '\uFFFF', s));
+            s.addTransition(new Transition('\uD800', '\uDBFF', high));
+            high.addTransition(new Transition('\uDC00', '\uDFFF', s));
+            Automaton a = new Automaton();
+            a.setInitialState(s);
+            a.setDeterministic(true);
+            return a;
+        }
+    }
+
+    // ------------------------------------------------------------------ state elimination
+
+    /** An expression with its size (node count), so budgets need no tree walks. */
+    private record Sized(Expr expr, int size) {
+    }
+
+    private static final class Elimination {
+        private final int n;
+        private final int end;
+        /** out.get(p).get(q): the label of the step from p to q ({@code end} = acceptance). */
+        private final List<Map<Integer, Sized>> out = new ArrayList<>();
+        private final List<Map<Integer, Boolean>> in = new ArrayList<>();
+        private final boolean[] gone;
+        private long total;
+
+        private final int budget;
+
+        Elimination(CodePointDfa dfa, int budget) {
+            this.budget = budget;
+            n = dfa.size();
+            end = n;
+            gone = new boolean[n + 1];
+            for (int i = 0; i <= n; i++) {
+                out.add(new LinkedHashMap<>());
+                in.add(new LinkedHashMap<>());
+            }
+            for (int p = 0; p < n; p++) {
+                for (Map.Entry<Integer, CodePointSet> e : dfa.out().get(p).entrySet()) {
+                    link(p, e.getKey(), leaf(e.getValue()));
+                }
+                if (dfa.accept()[p]) {
+                    link(p, end, new Sized(EMPTY_STRING, 1));
+                }
+            }
+        }
+
+        private void link(int p, int q, Sized label) {
+            Sized old = out.get(p).get(q);
+            Sized merged = old == null ? label : alt(old, label);
+            total += merged.size() - (old == null ? 0 : old.size());
+            out.get(p).put(q, merged);
+            in.get(q).put(p, Boolean.TRUE);
+        }
+
+        private void unlink(int p, int q) {
+            Sized old = out.get(p).remove(q);
+            if (old != null) {
+                total -= old.size();
+            }
+            in.get(q).remove(p);
+        }
+
+        /**
+         * Eliminates states, cheapest first, while the total size stays within the budget (a zero
+         * budget: while it does not grow). Returns whether the result is one expression.
+         */
+        boolean eliminateAll() {
+            if (n <= ELIMINATION_STATES) {
+                long allowed = budget == 0 ? total : Math.max(budget, total);
+                while (true) {
+                    int best = -1;
+                    long bestCost = Long.MAX_VALUE;
+                    for (int q = 1; q < n; q++) {
+                        if (!gone[q]) {
+                            long c = cost(q);
+                            if (c < bestCost) {
+                                bestCost = c;
+                                best = q;
+                            }
+                        }
+                    }
+                    if (best < 0 || total + bestCost > allowed) {
+                        break;
+                    }
+                    eliminate(best);
+                    if (budget == 0) {
+                        allowed = total;
+                    }
+                }
+            }
+            for (int q = 1; q < n; q++) {
+                if (!gone[q]) {
+                    return false;
+                }
+            }
+            return !hasOtherPredecessor(0);
+        }
+
+        RegularFragment fragment(String prefix) {
+            // the remaining states become rules; state 0 is the body (inlined when nothing refers to it)
+            Map<Integer, String> names = new LinkedHashMap<>();
+            for (int q = 0; q < n; q++) {
+                if (!gone[q] && (q != 0 || hasOtherPredecessor(0))) {
+                    names.put(q, prefix + "-s" + names.size());
+                }
+            }
+            List<Rule> rules = new ArrayList<>();
+            for (Map.Entry<Integer, String> e : names.entrySet()) {
+                rules.add(Rule.of(e.getValue(), equation(e.getKey(), names)));
+            }
+            Expr body = names.containsKey(0) ? Expr.ref(names.get(0)) : equation(0, names);
+            return new RegularFragment(body, rules);
+        }
+
+        private boolean hasOtherPredecessor(int q) {
+            for (int p : in.get(q).keySet()) {
+                if (p != q) {
+                    return true;
+                }
+            }
+            return false;
+        }
+
+        /** q = loop* (a1 Q1 / a2 Q2 / ... / final): references only in tail position. */
+        private Expr equation(int q, Map<Integer, String> names) {
+            Sized loop = out.get(q).get(q);
+            List<Expr> options = new ArrayList<>();
+            for (Map.Entry<Integer, Sized> e : out.get(q).entrySet()) {
+                int t = e.getKey();
+                if (t == q) {
+                    continue;
+                }
+                Expr label = e.getValue().expr();
+                options.add(t == end ? label : seq(e.getValue(), new Sized(Expr.ref(names.get(t)), 1)).expr());
+            }
+            Expr rest = options.size() == 1 ? options.get(0) : Expr.choice(options.toArray(Expr[]::new));
+            return loop == null ? rest : seq(star(loop), new Sized(rest, 1)).expr();
+        }
+
+        /** Size added by eliminating q (new labels minus removed ones). */
+        private long cost(int q) {
+            Sized loop = out.get(q).get(q);
+            long loopSize = loop == null ? 0 : loop.size() + 1;
+            long add = 0;
+            long removed = 0;
+            for (int p : in.get(q).keySet()) {
+                if (p == q) {
+                    continue;
+                }
+                Sized a = out.get(p).get(q);
+                removed += a.size();
+                long head = seqSize(a.size(), isEmptyString(a), loopSize, loop == null);
+                for (Map.Entry<Integer, Sized> e : out.get(q).entrySet()) {
+                    if (e.getKey() != q) {
+                        add += seqSize(head, isEmptyString(a) && loop == null, e.getValue().size(),
+                                isEmptyString(e.getValue()));
+                    }
+                }
+            }
+            for (Map.Entry<Integer, Sized> e : out.get(q).entrySet()) {
+                removed += e.getValue().size();
+            }
+            return add - removed;
+        }
+
+        private void eliminate(int q) {
+            Sized loop = out.get(q).get(q);
+            Sized star = loop == null ? null : star(loop);
+            List<Integer> preds = new ArrayList<>(in.get(q).keySet());
+            preds.remove(Integer.valueOf(q));
+            List<Map.Entry<Integer, Sized>> succs = new ArrayList<>();
+            for (Map.Entry<Integer, Sized> e : out.get(q).entrySet()) {
+                if (e.getKey() != q) {
+                    succs.add(Map.entry(e.getKey(), e.getValue()));
+                }
+            }
+            for (int p : preds) {
+                Sized a = out.get(p).get(q);
+                unlink(p, q);
+                for (Map.Entry<Integer, Sized> s : succs) {
+                    Sized via = star == null ? seq(a, s.getValue()) : seq(seq(a, star), s.getValue());
+                    link(p, s.getKey(), via);
+                }
+            }
+            for (Map.Entry<Integer, Sized> s : succs) {
+                unlink(q, s.getKey());
+            }
+            if (loop != null) {
+                unlink(q, q);
+            }
+            gone[q] = true;
+        }
+    }
+
+    // ------------------------------------------------------------------ expression building
+
+    private static Sized leaf(CodePointSet set) {
+        if (set.rangeCount() == 1 && set.lo(0) == set.hi(0)) {
+            return new Sized(text(new String(Character.toChars(set.lo(0)))), 1);
+        }
+        return new Sized(Expr.chars(set), 1);
+    }
+
+    /**
+     * A literal. Text without ASCII letters is marked case-insensitive, which changes nothing for
+     * it (RFC 5234 section 2.3 folds only letters) but lets it print as a plain quoted string.
+     */
+    static Expr text(String s) {
+        return new Expr.Text(s, s.chars().noneMatch(c -> c < 128 && Character.isLetter(c)), Span.NONE);
+    }
+
+    private static boolean isEmptyString(Sized a) {
+        return a.expr() instanceof Expr.Seq s && s.items().isEmpty();
+    }
+
+    private static long seqSize(long a, boolean aEmpty, long b, boolean bEmpty) {
+        return aEmpty ? b : bEmpty ? a : a + b + 1;
+    }
+
+    private static Sized seq(Sized a, Sized b) {
+        if (isEmptyString(a)) {
+            return b;
+        }
+        if (isEmptyString(b)) {
+            return a;
+        }
+        List<Expr> items = new ArrayList<>();
+        addSeq(items, a.expr());
+        addSeq(items, b.expr());
+        Expr e = items.size() == 1 ? items.get(0) : new Expr.Seq(items, Span.NONE);
+        return new Sized(e, a.size() + b.size() + 1);
+    }
+
+    private static void addSeq(List<Expr> items, Expr e) {
+        if (e instanceof Expr.Seq s) {
+            for (Expr x : s.items()) {
+                addSeq(items, x);
+            }
+        } else if (e instanceof Expr.Text t && !items.isEmpty() && items.get(items.size() - 1) instanceof Expr.Text p) {
+            // adjacent literals join; both kinds here match exactly themselves
+            items.set(items.size() - 1, text(p.text() + t.text()));
+        } else {
+            items.add(e);
+        }
+    }
+
+    private static Sized alt(Sized a, Sized b) {
+        if (a.expr() instanceof Expr.Chars ca && b.expr() instanceof Expr.Chars cb) {
+            return new Sized(Expr.chars(ca.set().union(cb.set())), 1);
+        }
+        List<Expr> options = new ArrayList<>();
+        addChoice(options, a.expr());
+        addChoice(options, b.expr());
+        // merge single-character options into one set
+        CodePointSet set = CodePointSet.EMPTY;
+        int singles = 0;
+        List<Expr> rest = new ArrayList<>();
+        for (Expr o : options) {
+            CodePointSet s = single(o);
+            if (s != null) {
+                set = set.union(s);
+                singles++;
+            } else {
+                rest.add(o);
+            }
+        }
+        if (singles > 1) {
+            rest.add(0, leaf(set).expr());
+            options = rest;
+        }
+        // an empty option makes the rest optional
+        boolean optional = options.removeIf(o -> o instanceof Expr.Seq s && s.items().isEmpty());
+        Expr e = options.size() == 1 ? options.get(0) : new Expr.Choice(options, Span.NONE);
+        if (optional) {
+            e = options.isEmpty() ? EMPTY_STRING : Expr.repeat(e, 0, 1);
+        }
+        return new Sized(e, a.size() + b.size() + 1);
+    }
+
+    /** The set of a one-character expression, or null. */
+    private static CodePointSet single(Expr e) {
+        if (e instanceof Expr.Chars c) {
+            return c.set();
+        }
+        if (e instanceof Expr.Text t && t.text().codePointCount(0, t.text().length()) == 1) {
+            return CodePointSet.of(t.text().codePointAt(0));
+        }
+        return null;
+    }
+
+    private static void addChoice(List<Expr> options, Expr e) {
+        if (e instanceof Expr.Choice c) {
+            options.addAll(c.options());
+        } else {
+            options.add(e);
+        }
+    }
+
+    private static Sized star(Sized body) {
+        return new Sized(Expr.repeat(body.expr(), 0, Expr.UNBOUNDED), body.size() + 1);
+    }
+
+    /** Used by tests: the state count of the minimal code-point automaton. */
+    static int minimalStates(Automaton a) {
+        return CodePointDfa.of(a).size();
     }
 }
