@@ -65,7 +65,7 @@ final class Facet {
         }
 
         String key() {
-            return String.join("&", parts);
+            return parts.isEmpty() ? "*" : "#" + String.join("&#", parts);
         }
     }
 

@@ -1226,6 +1226,10 @@ final class SchemaCompiler {
         if (name != null) {
             return name;
         }
+        List<Facet> facets = dnf(s);
+        if (facets.size() == 1 && facets.get(0).types == Facet.ALL && facets.get(0).typesOnly()) {
+            return anyValue(depth);
+        }
         if (ruleNames.size() >= MAX_RULES) {
             throw new SchemaException(s.parts().isEmpty() ? "" : bare(s.parts().get(0)), "",
                     "the grammar would need more than " + MAX_RULES + " rules");
