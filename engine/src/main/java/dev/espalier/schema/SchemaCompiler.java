@@ -258,10 +258,21 @@ final class SchemaCompiler {
         }
         Facet local = local(ptr, n);
         List<Facet> acc = local == null ? List.of() : List.of(local);
-        JsonNode ref = n.get("$ref");
-        if (ref != null) {
+        for (String k : List.of("$ref", "$dynamicRef")) {
+            JsonNode ref = n.get(k);
+            if (ref == null) {
+                continue;
+            }
             if (!ref.isTextual()) {
-                throw malformed(ptr, "$ref", "must be a string");
+                throw malformed(ptr, k, "must be a string");
+            }
+            if (k.equals("$dynamicRef")) {
+                String r = ref.textValue();
+                String anchor = r.contains("#") ? r.substring(r.indexOf('#') + 1) : "";
+                if (!anchor.isEmpty() && index.dynamicAnchors(anchor) > 1) {
+                    refuse(ptr, k, "a dynamic reference with several candidate $dynamicAnchor targets is not supported");
+                    continue;
+                }
             }
             String target;
             try {
@@ -270,17 +281,15 @@ final class SchemaCompiler {
                 if (!options.lenient() || !e.getMessage().contains("remote")) {
                     throw e;
                 }
-                relaxations.add(new SchemaNote(ptr, "$ref", "remote reference " + ref.textValue() + " not enforced"));
+                relaxations.add(new SchemaNote(ptr, k, "remote reference " + ref.textValue() + " not enforced"));
                 target = null;
             }
             if (target != null) {
                 acc = conjoin(acc, dnf(target), ptr);
             }
         }
-        for (String k : List.of("$dynamicRef", "$recursiveRef")) {
-            if (n.has(k)) {
-                refuse(ptr, k, "dynamic references are not supported");
-            }
+        if (n.has("$recursiveRef")) {
+            refuse(ptr, "$recursiveRef", "dynamic references are not supported");
         }
         JsonNode all = n.get("allOf");
         if (all != null) {
@@ -303,15 +312,33 @@ final class SchemaCompiler {
                 branches.add(conjoin(acc, dnf(ptr + "/oneOf/" + i), ptr));
             }
             List<Facet> union = new ArrayList<>();
-            outer:
+            boolean overlap = false;
+            List<List<Facet>> exact = new ArrayList<>();
             for (int i = 0; i < branches.size(); i++) {
-                for (int j = i + 1; j < branches.size(); j++) {
-                    if (!disjoint(branches.get(i), branches.get(j), 0)) {
-                        refuse(ptr, "oneOf", "branches " + i + " and " + j + " may both match one instance; "
-                                + "exactly-one cannot be enforced" + (options.lenient() ? " (enforced as anyOf)" : ""));
-                        break outer;
+                List<Facet> only = branches.get(i);
+                for (int j = 0; j < branches.size() && !only.isEmpty(); j++) {
+                    if (j == i || disjoint(branches.get(i), branches.get(j), 0)) {
+                        continue;
                     }
+                    overlap = true;
+                    // exactly one: branch i and not branch j, for every branch j it may overlap
+                    List<Facet> not = complementOrNull(dnf(ptr + "/oneOf/" + j));
+                    if (not == null) {
+                        refuse(ptr, "oneOf", "branches " + i + " and " + j + " may both match one instance and "
+                                + "branch " + j + " has no exact complement; exactly-one cannot be enforced"
+                                + (options.lenient() ? " (enforced as anyOf)" : ""));
+                        exact = null;
+                        break;
+                    }
+                    only = conjoin(only, not, ptr);
                 }
+                if (exact == null) {
+                    break;
+                }
+                exact.add(only);
+            }
+            if (exact != null && overlap) {
+                branches = exact;
             }
             branches.forEach(union::addAll);
             acc = union;
@@ -558,8 +585,21 @@ final class SchemaCompiler {
                 }
                 case "dependentSchemas" -> refuse(ptr, k, "dependentSchemas cannot be enforced");
                 case "unevaluatedProperties", "unevaluatedItems" -> {
-                    if (!(v.isBoolean() && v.booleanValue())) {
-                        refuse(ptr, k, k + " cannot be enforced");
+                    if (v.isBoolean() && v.booleanValue()) {
+                        break;
+                    }
+                    boolean applicators = false;
+                    for (String a : List.of("allOf", "anyOf", "oneOf", "not", "if", "$ref", "$dynamicRef",
+                            "dependentSchemas", "contains")) {
+                        applicators |= n.has(a);
+                    }
+                    if (applicators) {
+                        refuse(ptr, k, k + " next to in-place applicators cannot be enforced");
+                    } else if (k.equals("unevaluatedProperties") && !n.has("additionalProperties")) {
+                        // with no applicator, the unevaluated properties are exactly the additional ones
+                        f.additional = Facet.Sub.of(at);
+                    } else if (k.equals("unevaluatedItems") && !n.has("items") && !n.has("additionalItems")) {
+                        f.items = Facet.Sub.of(at);
                     }
                 }
                 default -> {

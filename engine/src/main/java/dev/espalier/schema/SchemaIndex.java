@@ -38,6 +38,7 @@ final class SchemaIndex {
     private final Map<String, URI> bases = new HashMap<>();
     /** absolute URI without fragment, or with a plain-name fragment, to pointer */
     private final Map<String, String> resources = new HashMap<>();
+    private final Map<String, Integer> dynamic = new HashMap<>();
 
     SchemaIndex(JsonNode root) {
         this.root = root;
@@ -65,6 +66,11 @@ final class SchemaIndex {
                 JsonNode anchor = n.get("$anchor");
                 if (anchor != null && anchor.isTextual()) {
                     resources.put(strip(base) + "#" + anchor.textValue(), ptr);
+                }
+                JsonNode dyn = n.get("$dynamicAnchor");
+                if (dyn != null && dyn.isTextual()) {
+                    resources.putIfAbsent(strip(base) + "#" + dyn.textValue(), ptr);
+                    dynamic.merge(dyn.textValue(), 1, Integer::sum);
                 }
             }
             nodes.put(ptr, n);
@@ -172,10 +178,21 @@ final class SchemaIndex {
         }
     }
 
+    /** The URI without fragment, in one spelling ({@code file:///a} and {@code file:/a} agree). */
     private static String strip(URI u) {
-        String s = u.toString();
-        int hash = s.indexOf('#');
-        return hash < 0 ? s : s.substring(0, hash);
+        if (u.isOpaque()) {
+            String s = u.toString();
+            int hash = s.indexOf('#');
+            return hash < 0 ? s : s.substring(0, hash);
+        }
+        URI n = u.normalize();
+        return n.getScheme() + ":" + (n.getRawAuthority() == null ? "" : "//" + n.getRawAuthority())
+                + (n.getRawPath() == null ? "" : n.getRawPath()) + (n.getRawQuery() == null ? "" : "?" + n.getRawQuery());
+    }
+
+    /** How many schemas declare {@code $dynamicAnchor} with this name. */
+    int dynamicAnchors(String name) {
+        return dynamic.getOrDefault(name, 0);
     }
 
     /** One JSON pointer reference token (RFC 6901). */
