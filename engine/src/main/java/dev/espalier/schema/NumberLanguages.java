@@ -64,6 +64,14 @@ public final class NumberLanguages {
      *                                  class is crossed (see the class documentation)
      */
     public static RegularFragment integers(String prefix, Bound lower, Bound upper, BigInteger multipleOf) {
+        return RegularRules.of(prefix, integerAutomaton(lower, upper, multipleOf));
+    }
+
+    /**
+     * The language of {@link #integers} as a minimal dk.brics automaton over chars, for callers that
+     * combine it with other automata (intersection, difference) before writing rules.
+     */
+    public static Automaton integerAutomaton(Bound lower, Bound upper, BigInteger multipleOf) {
         Automaton divisible = null;
         if (multipleOf != null) {
             if (multipleOf.signum() <= 0) {
@@ -75,7 +83,7 @@ public final class NumberLanguages {
             }
             divisible = remainders(multipleOf.intValueExact());
         }
-        return RegularRules.of(prefix, numbers(lower, upper, false, divisible));
+        return numbers(lower, upper, false, divisible);
     }
 
     /**
@@ -91,7 +99,15 @@ public final class NumberLanguages {
         if (lower == null && upper == null) {
             return new RegularFragment(anyJsonNumberExpr(), java.util.List.of());
         }
-        return RegularRules.of(prefix, numbers(lower, upper, true, null));
+        return RegularRules.of(prefix, decimalAutomaton(lower, upper));
+    }
+
+    /**
+     * The language of {@link #decimals} as a minimal dk.brics automaton over chars (with no bounds,
+     * every JSON number).
+     */
+    public static Automaton decimalAutomaton(Bound lower, Bound upper) {
+        return lower == null && upper == null ? anyJsonNumber() : numbers(lower, upper, true, null);
     }
 
     // ------------------------------------------------------------------ assembly

@@ -8,6 +8,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import com.fasterxml.jackson.databind.DeserializationFeature;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.espalier.automaton.CharAutomata;
+import dk.brics.automaton.Automaton;
 import java.math.BigDecimal;
 import java.math.BigInteger;
 import java.util.ArrayList;
@@ -157,6 +159,33 @@ class NumberLanguagesTest {
     void unboundedNumberExpressionMatchesItsAutomaton() {
         assertTrue(dev.espalier.automaton.CharAutomata.compile(NumberLanguages.anyJsonNumberExpr(), null, 1000)
                 .equals(NumberLanguages.anyJsonNumber()));
+    }
+
+    /** The rules written for an automaton, compiled back, are the automaton's language (dk.brics equality). */
+    @Test
+    void fragmentsCompileBackToTheirAutomata() {
+        Random random = new Random(0x5EED_1005L);
+        int compared = 0;
+        for (int k = 0; k < 40; k++) {
+            Bound lower = randomBound(random);
+            Bound upper = randomBound(random);
+            BigInteger m = random.nextBoolean() ? null : BigInteger.valueOf(1 + random.nextInt(30));
+            Automaton expected = NumberLanguages.integerAutomaton(lower, upper, m);
+            RegularFragment f = NumberLanguages.integers("n", lower, upper, m);
+            if (f.rules().isEmpty()) {
+                assertEquals(expected, CharAutomata.compile(f.body(), null, 100_000), lower + " " + upper + " " + m);
+                compared++;
+            }
+            Bound dl = randomDecimalBound(random);
+            Bound du = randomDecimalBound(random);
+            RegularFragment d = NumberLanguages.decimals("d", dl, du);
+            if (d.rules().isEmpty()) {
+                assertEquals(NumberLanguages.decimalAutomaton(dl, du), CharAutomata.compile(d.body(), null, 100_000),
+                        dl + " " + du);
+                compared++;
+            }
+        }
+        assertTrue(compared > 60, "too few fragments without rules: " + compared);
     }
 
     /** Empty ranges give the empty language, not an error. */
