@@ -1141,10 +1141,7 @@ final class SchemaCompiler {
             a.minimize();
         }
         for (String fm : f.formats) {
-            RegularFragment frag = Formats.content("fmt", fm).orElseThrow();
-            Map<String, Expr> fr = new HashMap<>();
-            frag.rules().forEach(r -> fr.put(r.key(), r.body()));
-            a = a.intersection(CharAutomata.compile(frag.body(), n -> fr.get(Grammar.key(n)), STATE_LIMIT));
+            a = a.intersection(Formats.automaton(fm).orElseThrow());
             a.minimize();
         }
         for (Facet neg : f.notStrings) {
@@ -1640,6 +1637,15 @@ final class SchemaCompiler {
                 return Expr.ref(stringRule());
             }
             content = Expr.repeat(Expr.ref(charRule()), f.minLength, f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength);
+        } else if (f.patterns.isEmpty() && f.formats.size() == 1 && f.notStrings.isEmpty() && f.minLength == 0
+                && f.maxLength < 0 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {
+            RegularFragment frag = Formats.content(freshPrefix(name + "-" + sanitise(f.formats.get(0))), f.formats.get(0))
+                    .orElseThrow();
+            for (Rule r : frag.rules()) {
+                usedNames.add(r.key());
+                rules.add(Rule.of(r.name(), encode(r.body())));
+            }
+            content = encode(frag.body());
         } else if (f.patterns.size() == 1 && f.formats.isEmpty() && f.notStrings.isEmpty() && f.minLength == 0
                 && f.maxLength < 0 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {
             content = encode(searchExpr(f.patterns.get(0).regex(), f.pointer));
@@ -1656,66 +1662,54 @@ final class SchemaCompiler {
     // ---- numbers
 
     private Expr numberExpr(Facet f, String name) {
-        List<Expr> options = new ArrayList<>();
-        boolean excludes = f.excluded.stream().anyMatch(JsonNode::isNumber);
-        if ((f.types & Facet.INT) != 0) {
-            Expr e;
-            if (f.lower == null && f.upper == null && f.multipleOf == null) {
-                e = Expr.ref(integerRule());
-            } else {
-                RegularFragment frag = NumberLanguages.integers(freshPrefix(name + "-int"), f.lower, f.upper, f.multipleOf);
-                for (Rule r : frag.rules()) {
-                    usedNames.add(r.key());
-                    rules.add(r);
-                }
-                e = frag.body();
-            }
-            options.add(e);
+        try {
+            return numbers(f, name);
+        } catch (IllegalArgumentException e) {
+            throw new SchemaException(f.pointer, f.multipleOf != null ? "multipleOf" : "minimum", e.getMessage());
         }
-        if ((f.types & Facet.FRAC) != 0) {
-            Expr e;
-            if (f.lower == null && f.upper == null && f.fractionDigits < 0) {
-                e = Expr.ref(fractionRule());
-            } else if (f.lower == null && f.upper == null) {
-                e = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
-                        Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
-                        Expr.repeat(Expr.chars(DIGITS), 0, f.fractionDigits - 1), Expr.chars(DIGITS19));
-                if (f.fractionDigits == 0) {
-                    e = null;
-                }
-            } else {
-                Automaton a = fractionAutomaton(f, name);
-                e = a.isEmpty() ? null : numberRules(name + "-dec", a);
-            }
-            if (e != null) {
-                options.add(e);
-            }
-        }
-        if (options.isEmpty()) {
-            return null;
-        }
-        if (!excludes) {
-            return choice(options);
-        }
-        // exclusions: the automaton of the number texts minus the excluded texts
-        Automaton a = numberAutomaton(choice(options));
-        for (JsonNode x : f.excluded) {
-            if (x.isNumber()) {
-                a = a.minus(BasicAutomata.makeString(JsonText.number(x)));
-            }
-        }
-        a.minimize();
-        return a.isEmpty() ? null : numberRules(name + "-num", a);
     }
 
-    private Automaton numberAutomaton(Expr e) {
-        Map<String, Expr> byName = new HashMap<>();
-        for (Rule r : rules) {
-            if (r != null) {
-                byName.put(r.key(), r.body());
+    private Expr numbers(Facet f, String name) {
+        boolean excludes = f.excluded.stream().anyMatch(JsonNode::isNumber);
+        if (excludes) {
+            // exclusions: the automaton of the number texts minus the excluded texts
+            Automaton a = BasicAutomata.makeEmpty();
+            if ((f.types & Facet.INT) != 0) {
+                a = a.union(NumberLanguages.integerAutomaton(f.lower, f.upper, f.multipleOf));
+            }
+            if ((f.types & Facet.FRAC) != 0) {
+                a = a.union(fractionAutomaton(f));
+            }
+            for (JsonNode x : f.excluded) {
+                if (x.isNumber()) {
+                    a = a.minus(BasicAutomata.makeString(JsonText.number(x)));
+                }
+            }
+            a.minimize();
+            return a.isEmpty() ? null : numberRules(name + "-number", a);
+        }
+        List<Expr> options = new ArrayList<>();
+        if ((f.types & Facet.INT) != 0) {
+            if (f.lower == null && f.upper == null && f.multipleOf == null) {
+                options.add(Expr.ref(integerRule()));
+            } else {
+                Automaton a = NumberLanguages.integerAutomaton(f.lower, f.upper, f.multipleOf);
+                if (!a.isEmpty()) {
+                    options.add(numberRules(name + "-integer", a));
+                }
             }
         }
-        return CharAutomata.compile(e, n -> byName.get(Grammar.key(n)), STATE_LIMIT);
+        if ((f.types & Facet.FRAC) != 0) {
+            if (f.lower == null && f.upper == null && f.fractionDigits < 0) {
+                options.add(Expr.ref(fractionRule()));
+            } else {
+                Automaton a = fractionAutomaton(f);
+                if (!a.isEmpty()) {
+                    options.add(numberRules(name + "-fraction", a));
+                }
+            }
+        }
+        return options.isEmpty() ? null : choice(options);
     }
 
     private Expr numberRules(String base, Automaton a) {
@@ -1727,21 +1721,19 @@ final class SchemaCompiler {
         return frag.body();
     }
 
-    private Automaton fractionAutomaton(Facet f, String name) {
-        RegularFragment frag = NumberLanguages.decimals(name + "-tmp", f.lower, f.upper);
-        Map<String, Expr> fr = new HashMap<>();
-        frag.rules().forEach(r -> fr.put(r.key(), r.body()));
-        Automaton bounded = CharAutomata.compile(frag.body(), n -> fr.get(Grammar.key(n)), STATE_LIMIT);
-        Expr canonical = fractionIr();
-        if (f.fractionDigits >= 0) {
-            canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
-                    Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
-                    Expr.repeat(Expr.chars(DIGITS), 0, Math.max(0, f.fractionDigits - 1)), Expr.chars(DIGITS19));
-            if (f.fractionDigits == 0) {
-                return BasicAutomata.makeEmpty();
-            }
+    /** Canonical non-integers within the facet's bounds and fraction digits. */
+    private Automaton fractionAutomaton(Facet f) {
+        if (f.fractionDigits == 0) {
+            return BasicAutomata.makeEmpty();
         }
-        Automaton a = bounded.intersection(CharAutomata.compile(canonical, null, STATE_LIMIT));
+        Expr canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
+                Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
+                Expr.repeat(Expr.chars(DIGITS), 0, f.fractionDigits < 0 ? Expr.UNBOUNDED : f.fractionDigits - 1),
+                Expr.chars(DIGITS19));
+        Automaton a = CharAutomata.compile(canonical, null, STATE_LIMIT);
+        if (f.lower != null || f.upper != null) {
+            a = a.intersection(NumberLanguages.decimalAutomaton(f.lower, f.upper));
+        }
         a.minimize();
         return a;
     }
