@@ -113,6 +113,10 @@ final class SchemaCompiler {
             Object[] job = pending.poll();
             generate((Facet.Sub) job[0], (Integer) job[1], (String) job[2]);
         }
+        Rule top = rules.stream().filter(r -> r.name().equals("root")).findFirst().orElseThrow();
+        if (top.body() instanceof Expr.Choice c && c.options().isEmpty()) {
+            throw new SchemaException("", "", "the schema accepts no instance at all");
+        }
         List<Rule> readable = new ArrayList<>();
         for (Rule r : rules) {
             readable.add(Rule.of(r.name(), readable(r.body())));
@@ -346,7 +350,7 @@ final class SchemaCompiler {
         }
         JsonNode not = n.get("not");
         if (not != null) {
-            List<Facet> c = complement(dnf(ptr + "/not"), ptr + "/not", "not");
+            List<Facet> c = complement(dnf(ptr + "/not"), ptr, "not");
             acc = conjoin(acc, c, ptr);
         }
         if (n.has("if") && (n.has("then") || n.has("else"))) {
