@@ -1860,6 +1860,13 @@ final class SchemaCompiler {
             }
         }
         Expr tail = tailMember(f, kept, depth, name, p);
+        long requiredCount = req.stream().filter(b -> b).count();
+        if (tail != null && f.minProperties - requiredCount >= 2) {
+            // two other members could share a name, which a grammar cannot rule out: the count would be wrong
+            refuse(f.pointer, "minProperties", "minProperties " + f.minProperties + " may have to be reached with "
+                    + "several pattern or additional members, whose names a grammar cannot keep distinct"
+                    + (options.lenient() ? " (repeated names are not excluded)" : ""));
+        }
         ObjectMachine m = new ObjectMachine(f, kept, members, req, tail, p, name);
         if (options.order() == SchemaOptions.Order.ANY && kept.size() > 1) {
             if (kept.size() > options.anyOrderLimit()) {
