@@ -57,6 +57,8 @@ final class SchemaCompiler {
     static final int MAX_OVERLAPPING_PATTERNS = 4;
     /** Most properties taking part in {@code dependentRequired} of one object. */
     static final int MAX_DEPENDENT = 12;
+    /** Deepest chain of references and in-place combinators followed at once. */
+    static final int MAX_REF_DEPTH = 500;
     /** State limit of intermediate automata. */
     static final int STATE_LIMIT = 50_000;
 
@@ -235,6 +237,9 @@ final class SchemaCompiler {
         List<Facet> done = dnfMemo.get(ptr);
         if (done != null) {
             return done;
+        }
+        if (dnfActive.size() >= MAX_REF_DEPTH) {
+            throw new SchemaException(ptr, "$ref", "references and combinators nest more than " + MAX_REF_DEPTH + " deep");
         }
         if (!dnfActive.add(ptr)) {
             throw new SchemaException(ptr, "$ref", "the schema refers to itself without descending into a property "
