@@ -1931,7 +1931,7 @@ final class SchemaCompiler {
             if (keys.isEmpty() || dnf(value).isEmpty()) {
                 continue;
             }
-            options.add(seq(text("\""), encodedRules(name + "-key", keys), text("\"" + p.colon()),
+            options.add(seq(text("\""), keyRule(name + "-pattern-name", keys), text("\"" + p.colon()),
                     Expr.ref(ruleFor(value, depth + 1))));
         }
         if (additional) {
@@ -1942,11 +1942,24 @@ final class SchemaCompiler {
             keys.minimize();
             if (!keys.isEmpty()) {
                 Expr key = BasicAutomata.makeAnyString().equals(keys) ? Expr.ref(stringRule())
-                        : seq(text("\""), encodedRules(name + "-key", keys), text("\""));
+                        : seq(text("\""), keyRule(name + "-other-name", keys), text("\""));
                 options.add(seq(key, text(p.colon()), Expr.ref(ruleFor(f.additional, depth + 1))));
             }
         }
-        return options.isEmpty() ? null : choice(options);
+        if (options.isEmpty()) {
+            return null;
+        }
+        String member = fresh(name + "-other");
+        rules.add(Rule.of(member, choice(options)));
+        return Expr.ref(member);
+    }
+
+    /** A rule for the encoded names an automaton of decoded names allows. */
+    private Expr keyRule(String base, Automaton keys) {
+        String rule = fresh(base);
+        Expr body = encodedRules(rule, keys);
+        rules.add(Rule.of(rule, body));
+        return Expr.ref(rule);
     }
 
     /** The decoded strings a propertyNames schema allows. */
