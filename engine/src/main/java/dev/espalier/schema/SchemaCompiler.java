@@ -57,6 +57,8 @@ final class SchemaCompiler {
     static final int MAX_OVERLAPPING_PATTERNS = 4;
     /** Most properties taking part in {@code dependentRequired} of one object. */
     static final int MAX_DEPENDENT = 12;
+    /** Most values of items whose distinctness ({@code uniqueItems}) is enforced. */
+    static final int MAX_UNIQUE_VALUES = 8;
     /** Deepest chain of references and in-place combinators followed at once. */
     static final int MAX_REF_DEPTH = 500;
     /** State limit of intermediate automata. */
@@ -618,12 +620,8 @@ final class SchemaCompiler {
                 }
             }
         }
-        if (f.unique && f.maxItems > 1 || f.unique && f.maxItems < 0) {
-            refuse(ptr, "uniqueItems", "distinct items cannot be enforced by a grammar"
-                    + (options.lenient() ? " (not enforced)" : ""));
-            f.unique = false;
-        } else {
-            f.unique = false;
+        if (f.unique && f.maxItems >= 0 && f.maxItems <= 1) {
+            f.unique = false; // at most one item: always distinct
         }
         return normalise(f);
     }
@@ -730,6 +728,7 @@ final class SchemaCompiler {
         m.items = a.items.and(b.items);
         m.minItems = Math.max(a.minItems, b.minItems);
         m.maxItems = Facet.minMax(a.maxItems, b.maxItems);
+        m.unique = a.unique || b.unique;
         // objects
         if (!a.patternProperties.isEmpty() && !b.patternProperties.isEmpty()
                 && !a.patternProperties.keySet().equals(b.patternProperties.keySet())) {
@@ -881,6 +880,9 @@ final class SchemaCompiler {
             out.add(x);
         }
         if ((f.types & Facet.ARR) != 0 && !f.noArrayRules()) {
+            if (f.unique) {
+                throw new Unexpressible("uniqueItems");
+            }
             if (!f.prefix.isEmpty() || !f.items.isTrue()) {
                 if (!f.prefix.isEmpty() || f.items.parts().size() != 1) {
                     throw new Unexpressible("array items");
@@ -1227,6 +1229,11 @@ final class SchemaCompiler {
                 for (int i = 0; i < v.size(); i++) {
                     if (!matches(v.get(i), f.itemAt(i), depth + 1)) {
                         return false;
+                    }
+                    for (int j = 0; f.unique && j < i; j++) {
+                        if (JsonText.same(v.get(i), v.get(j))) {
+                            return false;
+                        }
                     }
                 }
                 return true;
@@ -1768,10 +1775,16 @@ final class SchemaCompiler {
         if (max == 0) {
             return text("[]");
         }
-        if (f.typesOnly() && f.types == Facet.ARR) {
-            // fall through: plain arrays are built below as well
-        }
         JsonText.Punct p = JsonText.punct(options.spacing(), depth);
+        if (f.unique) {
+            List<String> values = f.prefix.isEmpty() ? finiteTexts(f.items, depth + 1) : null;
+            if (values == null || values.size() > MAX_UNIQUE_VALUES) {
+                refuse(f.pointer, "uniqueItems", "distinct items can be enforced only for items with at most "
+                        + MAX_UNIQUE_VALUES + " possible values" + (options.lenient() ? " (not enforced)" : ""));
+            } else {
+                return distinctItems(values, min, max, p, name);
+            }
+        }
         // rest(i): the items from index i on, i items being there already
         Expr rest;
         {
@@ -1796,6 +1809,72 @@ final class SchemaCompiler {
         Expr first = Expr.ref(ruleFor(f.itemAt(0), depth + 1));
         Expr nonEmpty = seq(text("[" + p.open()), first, rest, text(p.close() + "]"));
         return min == 0 ? choice(List.of(text("[]"), nonEmpty)) : nonEmpty;
+    }
+
+    /** Arrays of distinct values: a state per set of values used so far. */
+    private Expr distinctItems(List<String> values, int min, int max, JsonText.Punct p, String name) {
+        int k = values.size();
+        Map<Integer, Expr> memo = new HashMap<>();
+        for (int s = (1 << k) - 1; s >= 0; s--) {
+            // supersets have larger numbers: processed first
+            int used = Integer.bitCount(s);
+            List<Expr> opts = new ArrayList<>();
+            if (used >= min) {
+                opts.add(text(used == 0 ? "[]" : p.close() + "]"));
+            }
+            if (max < 0 || used < max) {
+                for (int j = 0; j < k; j++) {
+                    Expr after = memo.get(s | (1 << j));
+                    if ((s & (1 << j)) == 0 && after != null) {
+                        opts.add(seq(text(used == 0 ? "[" + p.open() : p.sep()), text(values.get(j)), after));
+                    }
+                }
+            }
+            Expr e = opts.isEmpty() ? null : choice(opts);
+            if (e != null && s != 0 && size(e) >= 12) {
+                String helper = fresh(name + "-distinct");
+                rules.add(Rule.of(helper, e));
+                e = Expr.ref(helper);
+            }
+            memo.put(s, e);
+        }
+        return memo.get(0);
+    }
+
+    /** The texts of a location's values at a depth when it allows finitely many; null otherwise. */
+    private List<String> finiteTexts(Facet.Sub s, int depth) {
+        Set<String> out = new LinkedHashSet<>();
+        for (Facet f : dnf(s)) {
+            if (f.values != null) {
+                Facet rest = f.copy();
+                rest.values = null;
+                for (JsonNode v : f.values) {
+                    if (matchesFacet(v, rest, 0)) {
+                        String t = JsonText.value(v, options.spacing(), depth);
+                        if (t != null) {
+                            out.add(t);
+                        }
+                    }
+                }
+            } else if ((f.types & ~(Facet.NULL | Facet.BOOL)) == 0) {
+                if ((f.types & Facet.BOOL) != 0) {
+                    for (String b : List.of("true", "false")) {
+                        if (f.excluded.stream().noneMatch(x -> x.isBoolean() && Boolean.toString(x.booleanValue()).equals(b))) {
+                            out.add(b);
+                        }
+                    }
+                }
+                if ((f.types & Facet.NULL) != 0 && f.excluded.stream().noneMatch(JsonNode::isNull)) {
+                    out.add("null");
+                }
+            } else {
+                return null;
+            }
+            if (out.size() > MAX_UNIQUE_VALUES) {
+                return null;
+            }
+        }
+        return new ArrayList<>(out);
     }
 
     // ---- objects

@@ -115,6 +115,11 @@ class SchemaKeywordTest {
                 "{\"name\":\"orchard\",\"children\":[{\"name\":\"row\",\"children\":[{\"name\":\"tree\"}]}]}",
                 "{\"name\":\"orchard\",\"children\":[{\"children\":[]}]} | {\"name\":\"x\",\"children\":[{\"name\":1}]}"),
             c("boolean schemas", "{\"properties\":{\"a\":true,\"b\":false}}", "{\"a\":[1,{\"x\":null}]} | {}", "{\"b\":1}"),
+            c("uniqueItems over an enum", "{\"type\":\"array\",\"items\":{\"enum\":[\"aphid\",\"scab\",1,{\"a\":[1]}]},\"uniqueItems\":true,\"minItems\":1}",
+                "[\"aphid\"] | [\"scab\",\"aphid\"] | [1,{\"a\":[1]},\"scab\",\"aphid\"] | [1.0,\"scab\"]",
+                "[] | [\"aphid\",\"aphid\"] | [1,1.0] | [{\"a\":[1]},{\"a\":[1.0]}] | [\"canker\"]"),
+            c("uniqueItems over booleans", "{\"type\":\"array\",\"items\":{\"type\":[\"boolean\",\"null\"]},\"uniqueItems\":true}",
+                "[] | [true,null,false] | [false]", "[true,true] | [null,false,null]"),
             c("unevaluatedProperties alone", "{\"properties\":{\"a\":{}},\"unevaluatedProperties\":false}", "{\"a\":1} | {}", "{\"b\":1}"));
         return cs.stream().map(x -> Arguments.of(x.keyword(), x));
     }

@@ -21,6 +21,8 @@ class SchemaStrictnessTest {
     @ParameterizedTest(name = "{0} at {1}")
     @CsvSource(delimiter = '|', value = {
         "uniqueItems      | /properties/rows                 | {'properties':{'rows':{'type':'array','uniqueItems':true}}}",
+        "uniqueItems      | ''                               | {'items':{'enum':[1,2,3,4,5,6,7,8,9]},'uniqueItems':true}",
+        "minProperties    | ''                               | {'properties':{'a':{}},'minProperties':3}",
         "contains         | /items                           | {'items':{'contains':{'type':'integer'}}}",
         "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.25}}}",
         "oneOf            | ''                               | {'oneOf':[{'type':'integer'},{'type':'object','additionalProperties':false}, {'type':'object','properties':{'a':{}},'additionalProperties':false}]}",
