@@ -99,6 +99,10 @@ final class Facet {
     int minItems;
     int maxItems = -1;
     boolean unique;
+    /** The {@code contains} location, or null. */
+    String contains;
+    int minContains = 1;
+    int maxContains = -1;
 
     Map<String, Sub> properties = new LinkedHashMap<>();
     Set<String> required = new LinkedHashSet<>();
@@ -142,6 +146,9 @@ final class Facet {
         f.minItems = minItems;
         f.maxItems = maxItems;
         f.unique = unique;
+        f.contains = contains;
+        f.minContains = minContains;
+        f.maxContains = maxContains;
         f.properties = new LinkedHashMap<>(properties);
         f.required = new LinkedHashSet<>(required);
         f.patternProperties = new LinkedHashMap<>(patternProperties);
@@ -169,7 +176,7 @@ final class Facet {
     }
 
     boolean noArrayRules() {
-        return prefix.isEmpty() && items.isTrue() && minItems == 0 && maxItems < 0 && !unique;
+        return prefix.isEmpty() && items.isTrue() && minItems == 0 && maxItems < 0 && !unique && contains == null;
     }
 
     boolean noObjectRules() {

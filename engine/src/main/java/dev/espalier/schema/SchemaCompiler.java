@@ -539,7 +539,16 @@ final class SchemaCompiler {
                     }
                     f.unique = v.booleanValue();
                 }
-                case "contains" -> refuse(ptr, k, "contains cannot be enforced");
+                case "contains" -> {
+                    f.contains = at;
+                    JsonNode lo = n.get("minContains");
+                    JsonNode hi = n.get("maxContains");
+                    f.minContains = lo == null ? 1 : nonNegative(ptr, "minContains", lo);
+                    f.maxContains = hi == null ? -1 : nonNegative(ptr, "maxContains", hi);
+                    if (f.minContains == 0 && f.maxContains < 0) {
+                        f.contains = null; // always satisfied
+                    }
+                }
                 case "properties" -> {
                     if (!v.isObject()) {
                         throw malformed(ptr, k, "must be an object of schemas");
@@ -729,6 +738,16 @@ final class SchemaCompiler {
         m.minItems = Math.max(a.minItems, b.minItems);
         m.maxItems = Facet.minMax(a.maxItems, b.maxItems);
         m.unique = a.unique || b.unique;
+        if (b.contains != null) {
+            if (a.contains != null && !(a.contains.equals(b.contains) && a.minContains == b.minContains
+                    && a.maxContains == b.maxContains)) {
+                throw new SchemaException(b.pointer, "contains", "cannot be merged with the contains of "
+                        + (a.pointer.isEmpty() ? "#" : "#" + a.pointer));
+            }
+            m.contains = b.contains;
+            m.minContains = b.minContains;
+            m.maxContains = b.maxContains;
+        }
         // objects
         if (!a.patternProperties.isEmpty() && !b.patternProperties.isEmpty()
                 && !a.patternProperties.keySet().equals(b.patternProperties.keySet())) {
@@ -880,8 +899,8 @@ final class SchemaCompiler {
             out.add(x);
         }
         if ((f.types & Facet.ARR) != 0 && !f.noArrayRules()) {
-            if (f.unique) {
-                throw new Unexpressible("uniqueItems");
+            if (f.unique || f.contains != null) {
+                throw new Unexpressible(f.unique ? "uniqueItems" : "contains");
             }
             if (!f.prefix.isEmpty() || !f.items.isTrue()) {
                 if (!f.prefix.isEmpty() || f.items.parts().size() != 1) {
@@ -1235,6 +1254,13 @@ final class SchemaCompiler {
                             return false;
                         }
                     }
+                }
+                if (f.contains != null) {
+                    int found = 0;
+                    for (JsonNode item : v) {
+                        found += matches(item, Facet.Sub.of(f.contains), depth + 1) ? 1 : 0;
+                    }
+                    return found >= f.minContains && (f.maxContains < 0 || found <= f.maxContains);
                 }
                 return true;
             }
@@ -1776,6 +1802,12 @@ final class SchemaCompiler {
             return text("[]");
         }
         JsonText.Punct p = JsonText.punct(options.spacing(), depth);
+        if (f.contains != null) {
+            Expr e = containing(f, min, max, depth, p, name);
+            if (e != null || !f.unique) {
+                return e;
+            }
+        }
         if (f.unique) {
             List<String> values = f.prefix.isEmpty() ? finiteTexts(f.items, depth + 1) : null;
             if (values == null || values.size() > MAX_UNIQUE_VALUES) {
@@ -1809,6 +1841,105 @@ final class SchemaCompiler {
         Expr first = Expr.ref(ruleFor(f.itemAt(0), depth + 1));
         Expr nonEmpty = seq(text("[" + p.open()), first, rest, text(p.close() + "]"));
         return min == 0 ? choice(List.of(text("[]"), nonEmpty)) : nonEmpty;
+    }
+
+    /**
+     * Arrays with {@code contains}: items that match the contained schema (Y) and items that do not
+     * (N) are told apart, so the count of matches is tracked exactly; states are (items so far,
+     * matches so far), each capped where it stops mattering, the saturated ones written as
+     * repetitions. Null (after a refusal) when the contained schema has no exact complement, the
+     * array has prefix items or distinct items.
+     */
+    private Expr containing(Facet f, int min, int max, int depth, JsonText.Punct p, String name) {
+        Facet.Sub c = Facet.Sub.of(f.contains);
+        if (!f.prefix.isEmpty() || f.unique || complementOrNull(dnf(c)) == null) {
+            refuse(f.pointer, "contains", "contains can be enforced only with no prefixItems or uniqueItems, and a "
+                    + "contained schema with an exact complement" + (options.lenient() ? " (not enforced)" : ""));
+            return null;
+        }
+        Facet.Sub ySub = f.items.and(c);
+        Facet.Sub nSub = f.items.and(new Facet.Sub(List.of("!" + f.contains)));
+        boolean yOk = !dnf(ySub).isEmpty();
+        boolean nOk = !dnf(nSub).isEmpty();
+        Expr y = yOk ? Expr.ref(ruleFor(ySub, depth + 1)) : null;
+        Expr no = nOk ? Expr.ref(ruleFor(nSub, depth + 1)) : null;
+        int lo = f.minContains;
+        int hi = f.maxContains;
+        int nCap = max >= 0 ? max : Math.max(min, 1);
+        int cCap = hi >= 0 ? hi : Math.max(lo, 1);
+        Map<Long, Expr> memo = new HashMap<>();
+        for (int n = nCap; n >= 0; n--) {
+            for (int k = cCap; k >= 0; k--) {
+                boolean nSat = max < 0 && n == nCap;
+                if (k > n && !nSat) {
+                    continue; // more matches than items: unreachable
+                }
+                boolean kSat = hi < 0 && k == cCap;
+                Expr open = text(n == 0 ? "[" + p.open() : p.sep());
+                Expr close = text(n == 0 ? "[]" : p.close() + "]");
+                Expr e;
+                if (nSat && kSat) {
+                    // any further items
+                    Expr item = y == null ? no : no == null ? y : choice(List.of(y, no));
+                    e = seq(Expr.repeat(seq(text(p.sep()), item), 0, Expr.UNBOUNDED), close);
+                } else if (nSat) {
+                    // further non-matching items, then either the end or one more match
+                    List<Expr> opts = new ArrayList<>();
+                    if (k >= lo) {
+                        opts.add(close);
+                    }
+                    Expr after = memo.get(key(n, k + 1));
+                    if (y != null && (hi < 0 || k < hi) && after != null) {
+                        opts.add(seq(text(p.sep()), y, after));
+                    }
+                    Expr rest = opts.isEmpty() ? null : choice(opts);
+                    e = rest == null ? null : no == null ? rest
+                            : seq(Expr.repeat(seq(text(p.sep()), no), 0, Expr.UNBOUNDED), rest);
+                } else if (kSat) {
+                    // any items; only their number counts
+                    Expr item = y == null ? no : no == null ? y : choice(List.of(y, no));
+                    int need = Math.max(0, min - n);
+                    int room = max < 0 ? Expr.UNBOUNDED : max - n;
+                    if (n == 0) {
+                        e = seq(open, item, Expr.repeat(seq(text(p.sep()), item), Math.max(0, need - 1),
+                                room == Expr.UNBOUNDED ? Expr.UNBOUNDED : room - 1), text(p.close() + "]"));
+                        if (need == 0) {
+                            e = choice(List.of(close, e));
+                        }
+                    } else {
+                        e = seq(Expr.repeat(seq(text(p.sep()), item), need, room), close);
+                    }
+                } else {
+                    List<Expr> opts = new ArrayList<>();
+                    if (n >= min && k >= lo) {
+                        opts.add(close);
+                    }
+                    if (max < 0 || n < max) {
+                        int n1 = Math.min(n + 1, nCap);
+                        Expr afterY = memo.get(key(n1, Math.min(k + 1, cCap)));
+                        if (y != null && (hi < 0 || k < hi) && afterY != null) {
+                            opts.add(seq(open, y, afterY));
+                        }
+                        Expr afterN = memo.get(key(n1, k));
+                        if (no != null && afterN != null) {
+                            opts.add(seq(open, no, afterN));
+                        }
+                    }
+                    e = opts.isEmpty() ? null : choice(opts);
+                }
+                if (e != null && size(e) >= 12 && n > 0) {
+                    String helper = fresh(name + "-items");
+                    rules.add(Rule.of(helper, e));
+                    e = Expr.ref(helper);
+                }
+                memo.put(key(n, k), e);
+            }
+        }
+        return memo.get(key(0, 0));
+    }
+
+    private static long key(int a, int b) {
+        return ((long) a << 32) | b;
     }
 
     /** Arrays of distinct values: a state per set of values used so far. */
@@ -2357,7 +2488,13 @@ final class SchemaCompiler {
         if (v.isArray()) {
             sb.append('[').append(p.open());
             for (int i = 0; i < v.size(); i++) {
-                String item = render(v.get(i), chosen.itemAt(i), depth + 1);
+                Facet.Sub itemSub = chosen.itemAt(i);
+                if (chosen.contains != null && chosen.prefix.isEmpty() && !chosen.unique) {
+                    itemSub = matches(v.get(i), Facet.Sub.of(chosen.contains), depth + 1)
+                            ? itemSub.and(Facet.Sub.of(chosen.contains))
+                            : itemSub.and(new Facet.Sub(List.of("!" + chosen.contains)));
+                }
+                String item = render(v.get(i), itemSub, depth + 1);
                 if (item == null) {
                     return null;
                 }

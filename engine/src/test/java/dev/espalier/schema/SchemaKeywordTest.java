@@ -120,6 +120,10 @@ class SchemaKeywordTest {
                 "[] | [\"aphid\",\"aphid\"] | [1,1.0] | [{\"a\":[1]},{\"a\":[1.0]}] | [\"canker\"]"),
             c("uniqueItems over booleans", "{\"type\":\"array\",\"items\":{\"type\":[\"boolean\",\"null\"]},\"uniqueItems\":true}",
                 "[] | [true,null,false] | [false]", "[true,true] | [null,false,null]"),
+            c("contains", "{\"type\":\"array\",\"items\":{\"type\":\"integer\"},\"contains\":{\"minimum\":10}}",
+                "[10] | [1,2,30] | [11,12]", "[] | [1,2,3] | [1,\"x\",10]"),
+            c("minContains maxContains", "{\"type\":\"array\",\"contains\":{\"const\":\"scab\"},\"minContains\":2,\"maxContains\":3,\"maxItems\":5}",
+                "[\"scab\",\"scab\"] | [1,\"scab\",null,\"scab\",\"scab\"]", "[\"scab\"] | [\"scab\",\"scab\",\"scab\",\"scab\"] | [1,2,3,4,\"scab\",\"scab\"]"),
             c("unevaluatedProperties alone", "{\"properties\":{\"a\":{}},\"unevaluatedProperties\":false}", "{\"a\":1} | {}", "{\"b\":1}"));
         return cs.stream().map(x -> Arguments.of(x.keyword(), x));
     }
