@@ -188,6 +188,29 @@ class NumberLanguagesTest {
         assertTrue(compared > 60, "too few fragments without rules: " + compared);
     }
 
+    /**
+     * Wide bounds with a divisor leave rules whose states are shared; they still compile to one byte
+     * automaton (oracle: BigInteger arithmetic on the automaton's verdicts).
+     */
+    @Test
+    void boundedDivisibleRulesCompileToAByteAutomaton() {
+        Bound lower = new Bound(new BigDecimal(-50), false);
+        Bound upper = new Bound(new BigDecimal("1e12"), false);
+        BigInteger m = BigInteger.valueOf(25);
+        RegularFragment f = NumberLanguages.integers("n", lower, upper, m);
+        assertFalse(f.rules().isEmpty(), "expected rules, not one expression");
+        dev.espalier.grammar.Grammar g = FragmentRecognizer.grammar(f);
+        dev.espalier.automaton.ByteDfa dfa = dev.espalier.automaton.ByteDfa.fromCharAutomaton(
+                CharAutomata.compileUnminimized(f.body(), n -> g.rule(n).map(dev.espalier.grammar.Rule::body).orElse(null),
+                        dev.espalier.automaton.ByteDfa.DEFAULT_STATE_LIMIT), dev.espalier.automaton.ByteDfa.DEFAULT_STATE_LIMIT);
+        Random random = new Random(0x5EED_1006L);
+        for (int k = 0; k < 2000; k++) {
+            BigInteger v = k < 200 ? BigInteger.valueOf(k - 100) : new BigInteger(42, random).subtract(BigInteger.valueOf(100));
+            boolean expected = within(new BigDecimal(v), lower, upper) && v.mod(m).signum() == 0;
+            assertEquals(expected, dfa.matches(v.toString().getBytes(java.nio.charset.StandardCharsets.US_ASCII)), v::toString);
+        }
+    }
+
     /** Empty ranges give the empty language, not an error. */
     @Test
     void emptyRanges() {
