@@ -93,6 +93,8 @@ final class Facet {
     BigInteger multipleOf;
     /** Most fraction digits ({@code multipleOf} a power of ten below one); -1 for no limit. */
     int fractionDigits = -1;
+    /** Other non-integer {@code multipleOf} steps. */
+    List<BigDecimal> steps = new ArrayList<>();
 
     List<Sub> prefix = new ArrayList<>();
     Sub items = Sub.TRUE;
@@ -141,6 +143,7 @@ final class Facet {
         f.upper = upper;
         f.multipleOf = multipleOf;
         f.fractionDigits = fractionDigits;
+        f.steps = new ArrayList<>(steps);
         f.prefix = new ArrayList<>(prefix);
         f.items = items;
         f.minItems = minItems;
@@ -172,7 +175,7 @@ final class Facet {
     }
 
     boolean noNumberRules() {
-        return lower == null && upper == null && multipleOf == null && fractionDigits < 0;
+        return lower == null && upper == null && multipleOf == null && fractionDigits < 0 && steps.isEmpty();
     }
 
     boolean noArrayRules() {

@@ -506,9 +506,12 @@ final class SchemaCompiler {
                         f.types &= ~Facet.FRAC;
                     } else if (s.unscaledValue().equals(BigInteger.ONE)) {
                         f.fractionDigits = Facet.minMax(f.fractionDigits, s.scale());
+                    } else if (s.unscaledValue().compareTo(BigInteger.valueOf(NumberLanguages.MAX_MODULUS)) <= 0
+                            && s.scale() <= 100) {
+                        f.steps.add(s);
                     } else {
-                        refuse(ptr, k, "multipleOf " + s.toPlainString() + " is neither an integer nor a power of "
-                                + "ten; it cannot be enforced exactly");
+                        refuse(ptr, k, "multipleOf " + s.toPlainString() + " has more than "
+                                + NumberLanguages.MAX_MODULUS + " as its digits; it cannot be enforced exactly");
                     }
                 }
                 case "items" -> {
@@ -729,6 +732,11 @@ final class SchemaCompiler {
         m.upper = Facet.tighterUpper(a.upper, b.upper);
         m.multipleOf = a.multipleOf == null ? b.multipleOf : b.multipleOf == null ? a.multipleOf : lcm(a.multipleOf, b.multipleOf);
         m.fractionDigits = Facet.minMax(a.fractionDigits, b.fractionDigits);
+        for (BigDecimal st : b.steps) {
+            if (!m.steps.contains(st)) {
+                m.steps.add(st);
+            }
+        }
         int n = Math.max(a.prefix.size(), b.prefix.size());
         m.prefix = new ArrayList<>();
         for (int i = 0; i < n; i++) {
@@ -873,7 +881,7 @@ final class SchemaCompiler {
         }
         int nums = f.types & (Facet.INT | Facet.FRAC);
         if (nums != 0 && !f.noNumberRules()) {
-            if (f.multipleOf != null || f.fractionDigits >= 0) {
+            if (f.multipleOf != null || f.fractionDigits >= 0 || !f.steps.isEmpty()) {
                 throw new Unexpressible("multipleOf");
             }
             if (f.lower != null) {
@@ -1238,6 +1246,11 @@ final class SchemaCompiler {
                 }
                 if (f.multipleOf != null && d.remainder(new BigDecimal(f.multipleOf)).signum() != 0) {
                     return false;
+                }
+                for (BigDecimal st : f.steps) {
+                    if (d.remainder(st).signum() != 0) {
+                        return false;
+                    }
                 }
                 return f.fractionDigits < 0 || d.stripTrailingZeros().scale() <= f.fractionDigits;
             }
@@ -1713,7 +1726,7 @@ final class SchemaCompiler {
 
     private Expr numbers(Facet f, String name) {
         boolean excludes = f.excluded.stream().anyMatch(JsonNode::isNumber);
-        if (excludes) {
+        if (excludes || !f.steps.isEmpty()) {
             // exclusions: the automaton of the number texts minus the excluded texts
             Automaton a = BasicAutomata.makeEmpty();
             if ((f.types & Facet.INT) != 0) {
@@ -1721,6 +1734,10 @@ final class SchemaCompiler {
             }
             if ((f.types & Facet.FRAC) != 0) {
                 a = a.union(fractionAutomaton(f));
+            }
+            for (BigDecimal st : f.steps) {
+                a = a.intersection(multiples(st));
+                a.minimize();
             }
             for (JsonNode x : f.excluded) {
                 if (x.isNumber()) {
@@ -1761,6 +1778,62 @@ final class SchemaCompiler {
             rules.add(r);
         }
         return frag.body();
+    }
+
+    /**
+     * Number texts (optional minus, digits, optional point and digits) whose value is a multiple of
+     * {@code step = c / 10^s} (c a positive integer, s > 0): the value times 10^s must be an integer
+     * divisible by c. With D the digits read (point skipped) and f the fraction digits, that is at
+     * most s fraction digits and D * 10^(s-f) divisible by c; the states are (D mod c, f).
+     */
+    static Automaton multiples(BigDecimal step) {
+        int c = step.unscaledValue().intValueExact();
+        int s = step.scale();
+        dk.brics.automaton.State[][] ints = new dk.brics.automaton.State[c][1];
+        dk.brics.automaton.State[][] fracs = new dk.brics.automaton.State[c][s + 1];
+        for (int r = 0; r < c; r++) {
+            ints[r][0] = new dk.brics.automaton.State();
+            for (int f = 1; f <= s; f++) {
+                fracs[r][f] = new dk.brics.automaton.State();
+            }
+        }
+        BigInteger cc = BigInteger.valueOf(c);
+        for (int r = 0; r < c; r++) {
+            ints[r][0].setAccept(BigInteger.valueOf(r).multiply(BigInteger.TEN.pow(s)).mod(cc).signum() == 0);
+            for (int f = 1; f <= s; f++) {
+                fracs[r][f].setAccept(BigInteger.valueOf(r).multiply(BigInteger.TEN.pow(s - f)).mod(cc).signum() == 0);
+            }
+            for (int d = 0; d <= 9; d++) {
+                int next = (r * 10 + d) % c;
+                ints[r][0].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[next][0]));
+                if (s >= 1) {
+                    // the first fraction digit comes after the point: see below
+                }
+                for (int f = 1; f < s; f++) {
+                    fracs[r][f].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[next][f + 1]));
+                }
+            }
+        }
+        // the point: from an integer state to a state expecting the first fraction digit
+        for (int r = 0; r < c; r++) {
+            dk.brics.automaton.State point = new dk.brics.automaton.State();
+            ints[r][0].addTransition(new dk.brics.automaton.Transition('.', point));
+            for (int d = 0; d <= 9; d++) {
+                point.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[(r * 10 + d) % c][1]));
+            }
+        }
+        dk.brics.automaton.State start = new dk.brics.automaton.State();
+        dk.brics.automaton.State afterMinus = new dk.brics.automaton.State();
+        start.addTransition(new dk.brics.automaton.Transition('-', afterMinus));
+        for (int d = 0; d <= 9; d++) {
+            start.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[d % c][0]));
+            afterMinus.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[d % c][0]));
+        }
+        Automaton a = new Automaton();
+        a.setInitialState(start);
+        a.setDeterministic(true);
+        a.minimize();
+        return a;
     }
 
     /** Canonical non-integers within the facet's bounds and fraction digits. */

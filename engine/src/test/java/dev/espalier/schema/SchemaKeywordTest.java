@@ -60,6 +60,8 @@ class SchemaKeywordTest {
                 "0.001 | 1 | 1.49 | 0.5", "0 | 1.5 | -0.1 | 2"),
             c("multipleOf integer", "{\"type\":\"integer\",\"multipleOf\":7,\"minimum\":0,\"maximum\":100}", "0 | 7 | 98", "1 | 99 | 105 | -7"),
             c("multipleOf power of ten", "{\"type\":\"number\",\"multipleOf\":0.01}", "1 | 2.5 | 3.25 | -0.01", "0.001 | 1.125"),
+            c("multipleOf decimal", "{\"type\":\"number\",\"multipleOf\":0.25,\"maximum\":3}", "0 | 0.25 | 1.5 | 3 | -2.75 | 0.5", "0.1 | 3.25 | 1.2 | 0.125"),
+            c("multipleOf decimal over integers", "{\"type\":\"integer\",\"multipleOf\":1.5}", "0 | 3 | -6 | 30", "1 | 2 | 4 | 1.5"),
             c("properties required", "{\"type\":\"object\",\"properties\":{\"variety\":{\"type\":\"string\"},\"rows\":{\"type\":\"integer\"}},\"required\":[\"variety\"]}",
                 "{\"variety\":\"Cox\"} | {\"rows\":3,\"variety\":\"Cox\"} | {\"variety\":\"Cox\",\"note\":[1]}",
                 "{} | {\"rows\":3} | {\"variety\":1} | []"),

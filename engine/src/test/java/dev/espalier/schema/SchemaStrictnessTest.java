@@ -24,7 +24,7 @@ class SchemaStrictnessTest {
         "uniqueItems      | ''                               | {'items':{'enum':[1,2,3,4,5,6,7,8,9]},'uniqueItems':true}",
         "minProperties    | ''                               | {'properties':{'a':{}},'minProperties':3}",
         "contains         | /items                           | {'items':{'contains':{'type':'object','additionalProperties':false}}}",
-        "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.25}}}",
+        "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.000123456789}}}",
         "oneOf            | ''                               | {'oneOf':[{'type':'integer'},{'type':'object','additionalProperties':false}, {'type':'object','properties':{'a':{}},'additionalProperties':false}]}",
         "$ref             | /properties/owner                | {'properties':{'owner':{'$ref':'https://orchard.example/person.json'}}}",
         "dependentSchemas | ''                               | {'dependentSchemas':{'a':{'required':['b']}}}",
