@@ -299,6 +299,29 @@ final class SchemaCompiler {
                 acc = conjoin(acc, dnf(target), ptr);
             }
         }
+        // dependent schemas: an object without the property, or with it and satisfying the schema
+        for (String k : List.of("dependentSchemas", "dependencies")) {
+            JsonNode deps = n.get(k);
+            if (deps == null || !deps.isObject()) {
+                continue;
+            }
+            for (Iterator<Map.Entry<String, JsonNode>> it = deps.fields(); it.hasNext(); ) {
+                Map.Entry<String, JsonNode> d = it.next();
+                if (d.getValue().isArray()) {
+                    continue; // dependentRequired form
+                }
+                String at = ptr + "/" + SchemaIndex.escape(k) + "/" + SchemaIndex.escape(d.getKey());
+                List<Facet> union = new ArrayList<>();
+                union.add(Facet.ofTypes(ptr, Facet.ALL & ~Facet.OBJ));
+                Facet absent = Facet.ofTypes(ptr, Facet.OBJ);
+                absent.properties.put(d.getKey(), Facet.Sub.NONE);
+                union.add(absent);
+                Facet present = Facet.ofTypes(ptr, Facet.OBJ);
+                present.required.add(d.getKey());
+                union.addAll(conjoin(List.of(present), dnf(at), ptr));
+                acc = conjoin(acc, union, ptr);
+            }
+        }
         if (n.has("$recursiveRef")) {
             refuse(ptr, "$recursiveRef", "dynamic references are not supported");
         }
@@ -600,13 +623,17 @@ final class SchemaCompiler {
                                 targets.add(t.textValue());
                             }
                         } else if (k.equals("dependencies")) {
-                            refuse(ptr, k, "schema dependencies cannot be enforced");
+                            // schema dependencies: applied in dnfOf, as dependentSchemas
                         } else {
                             throw malformed(ptr, k, "must map names to arrays of names");
                         }
                     }
                 }
-                case "dependentSchemas" -> refuse(ptr, k, "dependentSchemas cannot be enforced");
+                case "dependentSchemas" -> {
+                    if (!v.isObject()) {
+                        throw malformed(ptr, k, "must be an object of schemas");
+                    }
+                }
                 case "unevaluatedProperties", "unevaluatedItems" -> {
                     if (v.isBoolean() && v.booleanValue()) {
                         break;

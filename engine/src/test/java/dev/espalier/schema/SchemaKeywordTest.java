@@ -86,6 +86,8 @@ class SchemaKeywordTest {
             c("dependentRequired", "{\"properties\":{\"graftDate\":{},\"rootstock\":{},\"scion\":{}},\"dependentRequired\":{\"scion\":[\"rootstock\"],\"graftDate\":[\"scion\"]}}",
                 "{} | {\"rootstock\":1} | {\"scion\":1,\"rootstock\":2} | {\"graftDate\":1,\"scion\":2,\"rootstock\":3}",
                 "{\"scion\":1} | {\"graftDate\":1} | {\"graftDate\":1,\"scion\":2}"),
+            c("dependentSchemas", "{\"properties\":{\"scion\":{},\"rootstock\":{}},\"dependentSchemas\":{\"scion\":{\"properties\":{\"rootstock\":{\"enum\":[\"M9\",\"M26\"]}},\"required\":[\"rootstock\"]}}}",
+                "{} | {\"rootstock\":\"MM106\"} | {\"scion\":1,\"rootstock\":\"M9\"} | 5", "{\"scion\":1} | {\"scion\":1,\"rootstock\":\"MM106\"}"),
             c("anyOf", "{\"anyOf\":[{\"type\":\"string\",\"maxLength\":2},{\"type\":\"integer\",\"minimum\":10}]}",
                 "\"ab\" | 10 | 99", "\"abc\" | 9 | null"),
             c("oneOf disjoint by type", "{\"oneOf\":[{\"type\":\"string\"},{\"type\":\"integer\"}]}", "\"a\" | 1", "1.5 | null"),

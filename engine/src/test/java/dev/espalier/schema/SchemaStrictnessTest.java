@@ -27,7 +27,7 @@ class SchemaStrictnessTest {
         "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.000123456789}}}",
         "oneOf            | ''                               | {'oneOf':[{'type':'integer'},{'type':'object','additionalProperties':false}, {'type':'object','properties':{'a':{}},'additionalProperties':false}]}",
         "$ref             | /properties/owner                | {'properties':{'owner':{'$ref':'https://orchard.example/person.json'}}}",
-        "dependentSchemas | ''                               | {'dependentSchemas':{'a':{'required':['b']}}}",
+        "unevaluatedItems | ''                               | {'allOf':[{'prefixItems':[{}]}],'unevaluatedItems':false}",
         "not              | /$defs/x                         | {'$defs':{'x':{'not':{'type':'object','additionalProperties':false}}},'$ref':'#/$defs/x'}",
         "pattern          | /properties/code                 | {'properties':{'code':{'pattern':'(a)\\\\1'}}}",
         "unevaluatedProperties | ''                          | {'allOf':[{'properties':{'a':{}}}],'unevaluatedProperties':false}",
