@@ -111,6 +111,10 @@ final class Facet {
     Map<String, Sub> patternProperties = new LinkedHashMap<>();
     Sub additional = Sub.TRUE;
     Sub propertyNames = Sub.TRUE;
+    /** Whether some merged part has {@code additionalProperties}, so every member is evaluated. */
+    boolean additionalSet;
+    /** Whether some merged part has an {@code items} schema, so every item is evaluated. */
+    boolean itemsSet;
     int minProperties;
     int maxProperties = -1;
     Map<String, Set<String>> dependentRequired = new LinkedHashMap<>();
@@ -157,6 +161,8 @@ final class Facet {
         f.patternProperties = new LinkedHashMap<>(patternProperties);
         f.additional = additional;
         f.propertyNames = propertyNames;
+        f.additionalSet = additionalSet;
+        f.itemsSet = itemsSet;
         f.minProperties = minProperties;
         f.maxProperties = maxProperties;
         f.dependentRequired = new LinkedHashMap<>();

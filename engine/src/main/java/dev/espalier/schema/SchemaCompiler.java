@@ -400,7 +400,124 @@ final class SchemaCompiler {
             }
             acc = conjoin(acc, union, ptr);
         }
+        acc = unevaluated(ptr, n, acc);
         return acc;
+    }
+
+    /**
+     * {@code unevaluatedProperties} and {@code unevaluatedItems}, once the in-place applicators are
+     * merged into facets: a facet's evaluated members are the names its merged parts declare or
+     * match by pattern (all of them when a part has {@code additionalProperties}), so the keyword's
+     * schema joins the facet's schema for other members; likewise for items beyond the prefix. This
+     * is exact when no annotations are lost or gained by a branch the facet does not stand for:
+     * refused under {@code not}, {@code if}, {@code contains} and {@code anyOf}/{@code oneOf} whose
+     * branches are not disjoint.
+     */
+    private List<Facet> unevaluated(String ptr, JsonNode n, List<Facet> acc) {
+        for (String k : List.of("unevaluatedProperties", "unevaluatedItems")) {
+            JsonNode u = n.get(k);
+            if (u == null) {
+                continue;
+            }
+            boolean props = k.equals("unevaluatedProperties");
+            if (u.isBoolean() && u.booleanValue()) {
+                // evaluates every member (or item) without constraining it
+                List<Facet> out = new ArrayList<>();
+                for (Facet f : acc) {
+                    Facet g = f.copy();
+                    if (props) {
+                        g.additionalSet = true;
+                    } else {
+                        g.itemsSet = true;
+                    }
+                    out.add(g);
+                }
+                acc = out;
+                continue;
+            }
+            String obstacle = unevaluatedObstacle(ptr, props);
+            if (obstacle != null) {
+                refuse(ptr, k, k + " cannot be enforced exactly next to " + obstacle
+                        + (options.lenient() ? " (not enforced)" : ""));
+                continue;
+            }
+            Facet.Sub schema = Facet.Sub.of(ptr + "/" + k);
+            List<Facet> out = new ArrayList<>();
+            for (Facet f : acc) {
+                Facet g = f.copy();
+                if (props && !g.additionalSet) {
+                    g.additional = g.additional.and(schema);
+                    g.additionalSet = true;
+                } else if (!props && !g.itemsSet) {
+                    g.items = g.items.and(schema);
+                    g.itemsSet = true;
+                }
+                out.add(g);
+            }
+            acc = out;
+        }
+        return acc;
+    }
+
+    /** What in the in-place applicators under a location keeps unevaluated* from being exact; null if nothing. */
+    private String unevaluatedObstacle(String ptr, boolean props) {
+        Deque<String> work = new ArrayDeque<>();
+        Set<String> seen = new HashSet<>();
+        work.push(ptr);
+        while (!work.isEmpty()) {
+            String at = work.pop();
+            if (!seen.add(at)) {
+                continue;
+            }
+            JsonNode n = index.node(at);
+            if (n == null || !n.isObject()) {
+                continue;
+            }
+            if (n.has("not")) {
+                return "not";
+            }
+            if (n.has("if")) {
+                return "if";
+            }
+            if (!props && n.has("contains")) {
+                return "contains";
+            }
+            for (String k : List.of("anyOf", "oneOf", "allOf")) {
+                JsonNode arr = n.get(k);
+                if (arr == null || !arr.isArray()) {
+                    continue;
+                }
+                for (int i = 0; i < arr.size(); i++) {
+                    work.push(at + "/" + k + "/" + i);
+                    for (int j = 0; j < i && !k.equals("allOf"); j++) {
+                        if (!disjoint(dnf(at + "/" + k + "/" + i), dnf(at + "/" + k + "/" + j), 0)) {
+                            return k + " with branches that may overlap";
+                        }
+                    }
+                }
+            }
+            for (String k : List.of("$ref", "$dynamicRef")) {
+                JsonNode r = n.get(k);
+                if (r != null && r.isTextual()) {
+                    try {
+                        work.push(index.resolve(at, r.textValue()));
+                    } catch (SchemaException e) {
+                        return "an unresolved reference";
+                    }
+                }
+            }
+            for (String k : List.of("dependentSchemas", "dependencies")) {
+                JsonNode d = n.get(k);
+                if (d != null && d.isObject()) {
+                    d.fieldNames().forEachRemaining(name -> {
+                        if (d.get(name).isObject() || d.get(name).isBoolean()) {
+                            work.push(at + "/" + SchemaIndex.escape(k) + "/" + SchemaIndex.escape(name));
+                        }
+                    });
+                }
+            }
+        }
+        return null;
     }
 
     private static JsonNode arrayOf(String ptr, String keyword, JsonNode n) {
@@ -544,9 +661,11 @@ final class SchemaCompiler {
                         }
                         if (n.has("additionalItems")) {
                             f.items = Facet.Sub.of(ptr + "/additionalItems");
+                            f.itemsSet = true;
                         }
                     } else {
                         f.items = Facet.Sub.of(at);
+                        f.itemsSet = true;
                     }
                 }
                 case "prefixItems" -> {
@@ -593,7 +712,10 @@ final class SchemaCompiler {
                         f.required.add(r.textValue());
                     }
                 }
-                case "additionalProperties" -> f.additional = Facet.Sub.of(at);
+                case "additionalProperties" -> {
+                    f.additional = Facet.Sub.of(at);
+                    f.additionalSet = true;
+                }
                 case "patternProperties" -> {
                     if (!v.isObject()) {
                         throw malformed(ptr, k, "must be an object of schemas");
@@ -635,22 +757,7 @@ final class SchemaCompiler {
                     }
                 }
                 case "unevaluatedProperties", "unevaluatedItems" -> {
-                    if (v.isBoolean() && v.booleanValue()) {
-                        break;
-                    }
-                    boolean applicators = false;
-                    for (String a : List.of("allOf", "anyOf", "oneOf", "not", "if", "$ref", "$dynamicRef",
-                            "dependentSchemas", "contains")) {
-                        applicators |= n.has(a);
-                    }
-                    if (applicators) {
-                        refuse(ptr, k, k + " next to in-place applicators cannot be enforced");
-                    } else if (k.equals("unevaluatedProperties") && !n.has("additionalProperties")) {
-                        // with no applicator, the unevaluated properties are exactly the additional ones
-                        f.additional = Facet.Sub.of(at);
-                    } else if (k.equals("unevaluatedItems") && !n.has("items") && !n.has("additionalItems")) {
-                        f.items = Facet.Sub.of(at);
-                    }
+                    // applied in dnfOf, once the in-place applicators are merged
                 }
                 default -> {
                     if (!HANDLED.contains(k) && !ANNOTATIONS.contains(k)) {
@@ -805,6 +912,8 @@ final class SchemaCompiler {
             b.patternProperties.forEach((p, s) -> m.patternProperties.put(p, s.and(a.additional)));
         }
         m.additional = a.additional.and(b.additional);
+        m.additionalSet = a.additionalSet || b.additionalSet;
+        m.itemsSet = a.itemsSet || b.itemsSet;
         m.propertyNames = a.propertyNames.and(b.propertyNames);
         m.minProperties = Math.max(a.minProperties, b.minProperties);
         m.maxProperties = Facet.minMax(a.maxProperties, b.maxProperties);

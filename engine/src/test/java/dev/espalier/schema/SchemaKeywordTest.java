@@ -128,6 +128,11 @@ class SchemaKeywordTest {
                 "[10] | [1,2,30] | [11,12]", "[] | [1,2,3] | [1,\"x\",10]"),
             c("minContains maxContains", "{\"type\":\"array\",\"contains\":{\"const\":\"scab\"},\"minContains\":2,\"maxContains\":3,\"maxItems\":5}",
                 "[\"scab\",\"scab\"] | [1,\"scab\",null,\"scab\",\"scab\"]", "[\"scab\"] | [\"scab\",\"scab\",\"scab\",\"scab\"] | [1,2,3,4,\"scab\",\"scab\"]"),
+            c("unevaluatedProperties with allOf and $ref", "{\"$defs\":{\"base\":{\"properties\":{\"id\":{\"type\":\"integer\"}},\"required\":[\"id\"]}},"
+                + "\"allOf\":[{\"$ref\":\"#/$defs/base\"}],\"properties\":{\"variety\":{\"type\":\"string\"}},\"unevaluatedProperties\":false}",
+                "{\"id\":1} | {\"id\":1,\"variety\":\"Cox\"}", "{\"id\":1,\"row\":2} | {\"variety\":\"Cox\"}"),
+            c("unevaluatedItems with prefixItems in allOf", "{\"allOf\":[{\"prefixItems\":[{\"type\":\"string\"}]}],\"unevaluatedItems\":{\"type\":\"integer\"}}",
+                "[] | [\"row\"] | [\"row\",1,2]", "[\"row\",\"x\"] | [1,\"row\"]"),
             c("unevaluatedProperties alone", "{\"properties\":{\"a\":{}},\"unevaluatedProperties\":false}", "{\"a\":1} | {}", "{\"b\":1}"));
         return cs.stream().map(x -> Arguments.of(x.keyword(), x));
     }

@@ -27,10 +27,10 @@ class SchemaStrictnessTest {
         "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.000123456789}}}",
         "oneOf            | ''                               | {'oneOf':[{'type':'integer'},{'type':'object','additionalProperties':false}, {'type':'object','properties':{'a':{}},'additionalProperties':false}]}",
         "$ref             | /properties/owner                | {'properties':{'owner':{'$ref':'https://orchard.example/person.json'}}}",
-        "unevaluatedItems | ''                               | {'allOf':[{'prefixItems':[{}]}],'unevaluatedItems':false}",
+        "unevaluatedItems | ''                               | {'contains':{'type':'integer'},'unevaluatedItems':false}",
         "not              | /$defs/x                         | {'$defs':{'x':{'not':{'type':'object','additionalProperties':false}}},'$ref':'#/$defs/x'}",
         "pattern          | /properties/code                 | {'properties':{'code':{'pattern':'(a)\\\\1'}}}",
-        "unevaluatedProperties | ''                          | {'allOf':[{'properties':{'a':{}}}],'unevaluatedProperties':false}",
+        "unevaluatedProperties | ''                          | {'anyOf':[{'properties':{'a':{}}},{'properties':{'b':{}}}],'unevaluatedProperties':false}",
     })
     void refusedWithPointer(String keyword, String pointer, String schema) {
         String json = schema.replace('\'', '"');
