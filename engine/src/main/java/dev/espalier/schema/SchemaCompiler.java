@@ -213,8 +213,22 @@ final class SchemaCompiler {
 
     // ================================================================== normal form
 
+    private final Map<String, List<Facet>> subMemo = new HashMap<>();
+
     /** The facets of a conjunction of locations. */
     List<Facet> dnf(Facet.Sub sub) {
+        if (sub.parts().size() == 1 && !sub.parts().get(0).startsWith("!") && !sub.isFalse()) {
+            return dnf(sub.parts().get(0));
+        }
+        List<Facet> done = subMemo.get(sub.key());
+        if (done == null) {
+            done = dnfOfParts(sub);
+            subMemo.put(sub.key(), done);
+        }
+        return done;
+    }
+
+    private List<Facet> dnfOfParts(Facet.Sub sub) {
         List<Facet> acc = List.of(Facet.any(sub.parts().isEmpty() ? "" : bare(sub.parts().get(0))));
         for (String part : sub.parts()) {
             if (part.equals(Facet.Sub.FALSE)) {
@@ -1081,7 +1095,11 @@ final class SchemaCompiler {
                 }
                 Facet x = Facet.ofTypes(p, Facet.OBJ);
                 x.required.add(e.getKey());
-                x.properties.put(e.getKey(), negate(s));
+                Facet.Sub negated = negate(s);
+                if (!negated.isTrue() && negated.parts().get(0).startsWith("!")) {
+                    complementOf(dnf(Facet.Sub.of(negated.parts().get(0).substring(1)))); // expressible?
+                }
+                x.properties.put(e.getKey(), negated);
                 out.add(x);
             }
             if (f.minProperties > 0) {
