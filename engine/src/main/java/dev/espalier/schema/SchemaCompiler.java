@@ -1990,20 +1990,28 @@ final class SchemaCompiler {
         return a;
     }
 
+    private static final Map<Integer, Automaton> CANONICAL_FRACTIONS = new java.util.concurrent.ConcurrentHashMap<>();
+
+    /** Canonical non-integers with at most {@code digits} fraction digits (-1: any number). */
+    private static Automaton canonicalFractions(int digits) {
+        return CANONICAL_FRACTIONS.computeIfAbsent(digits, d -> {
+            Expr canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
+                    Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
+                    Expr.repeat(Expr.chars(DIGITS), 0, d < 0 ? Expr.UNBOUNDED : d - 1), Expr.chars(DIGITS19));
+            return CharAutomata.compile(canonical, null, STATE_LIMIT);
+        }).clone();
+    }
+
     /** Canonical non-integers within the facet's bounds and fraction digits. */
     private Automaton fractionAutomaton(Facet f) {
         if (f.fractionDigits == 0) {
             return BasicAutomata.makeEmpty();
         }
-        Expr canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
-                Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
-                Expr.repeat(Expr.chars(DIGITS), 0, f.fractionDigits < 0 ? Expr.UNBOUNDED : f.fractionDigits - 1),
-                Expr.chars(DIGITS19));
-        Automaton a = CharAutomata.compile(canonical, null, STATE_LIMIT);
+        Automaton a = canonicalFractions(f.fractionDigits);
         if (f.lower != null || f.upper != null) {
             a = a.intersection(NumberLanguages.decimalAutomaton(f.lower, f.upper));
+            a.minimize();
         }
-        a.minimize();
         return a;
     }
 
