@@ -59,6 +59,10 @@ final class SchemaCompiler {
     static final int MAX_DEPENDENT = 12;
     /** Most values of items whose distinctness ({@code uniqueItems}) is enforced. */
     static final int MAX_UNIQUE_VALUES = 8;
+    /** Most states of one object's or array's counting machine. */
+    static final int MAX_STATES = 100_000;
+    /** Most named properties whose orders are enumerated, whatever the option says. */
+    static final int MAX_ANY_ORDER = 12;
     /** Deepest chain of references and in-place combinators followed at once. */
     static final int MAX_REF_DEPTH = 500;
     /** State limit of intermediate automata. */
@@ -639,6 +643,9 @@ final class SchemaCompiler {
                     }
                     if (knownFormat(v.textValue())) {
                         f.formats.add(v.textValue());
+                        // format is an annotation in draft 2020-12; what the grammar checks is said plainly
+                        Formats.gaps(v.textValue()).ifPresent(g -> warnings.add(new SchemaNote(ptr, k,
+                                "format " + v.textValue() + " is enforced by its grammar, which does not check: " + g)));
                     } else {
                         warnings.add(new SchemaNote(ptr, k, "format " + v.textValue()
                                 + " is not enforced (an annotation only)"));
@@ -1488,6 +1495,9 @@ final class SchemaCompiler {
 
     /** An unused rule name based on {@code base}. */
     private String fresh(String base) {
+        if (usedNames.size() >= MAX_RULES) {
+            throw new SchemaException("", "", "the grammar would need more than " + MAX_RULES + " rules");
+        }
         String name = base;
         for (int i = 2; usedNames.contains(name.toLowerCase(Locale.ROOT)); i++) {
             name = base + "-" + i;
@@ -1621,6 +1631,36 @@ final class SchemaCompiler {
             }
         }
         return out.size() == 1 ? out.get(0) : new Expr.Choice(out, dev.espalier.grammar.Span.NONE);
+    }
+
+    /** Largest count written as one repetition (the Earley lowering's limit). */
+    static final int MAX_COUNT = 1_000;
+
+    /**
+     * {@code x} repeated {@code min..max} times, with counts above {@value #MAX_COUNT} written as
+     * nested repetitions of blocks (the same language): {@code x{m}} is {@code (x{B}){m/B} x{m%B}},
+     * and {@code x{0,N}} with {@code N = qB + r} is {@code (x{B}){0,q-1} x{0,B-1} / (x{B}){q} x{0,r}}.
+     */
+    static Expr rep(Expr x, int min, int max) {
+        if (min <= MAX_COUNT && (max == Expr.UNBOUNDED || max <= MAX_COUNT)) {
+            return Expr.repeat(x, min, max);
+        }
+        int b = MAX_COUNT;
+        Expr block = Expr.repeat(x, b, b);
+        Expr head = min <= b ? Expr.repeat(x, min, min)
+                : seq(List.of(rep(block, min / b, min / b), Expr.repeat(x, min % b, min % b)));
+        if (max == Expr.UNBOUNDED) {
+            return seq(List.of(head, Expr.repeat(x, 0, Expr.UNBOUNDED)));
+        }
+        int n = max - min;
+        if (n <= b) {
+            return seq(List.of(head, Expr.repeat(x, 0, n)));
+        }
+        int q = n / b;
+        int r = n % b;
+        Expr upTo = choice(List.of(seq(List.of(rep(block, 0, q - 1), Expr.repeat(x, 0, b - 1))),
+                seq(List.of(rep(block, q, q), Expr.repeat(x, 0, r)))));
+        return seq(List.of(head, upTo));
     }
 
     private static Expr optional(Expr e) {
@@ -1845,7 +1885,7 @@ final class SchemaCompiler {
             if (f.minLength == 0 && f.maxLength < 0) {
                 return Expr.ref(stringRule());
             }
-            content = Expr.repeat(Expr.ref(charRule()), f.minLength, f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength);
+            content = rep(Expr.ref(charRule()), f.minLength, f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength);
         } else if (f.patterns.isEmpty() && f.formats.size() == 1 && f.notStrings.isEmpty() && f.minLength == 0
                 && f.maxLength < 0 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {
             RegularFragment frag = Formats.content(freshPrefix(name + "-" + sanitise(f.formats.get(0))), f.formats.get(0))
@@ -2062,7 +2102,7 @@ final class SchemaCompiler {
                 rest = text("");
             } else {
                 Expr item = Expr.ref(ruleFor(f.items, depth + 1));
-                rest = Expr.repeat(seq(text(p.sep()), item), lo, hi);
+                rest = rep(seq(text(p.sep()), item), lo, hi);
             }
         }
         for (int i = k - 1; i >= 1; i--) {
@@ -2102,6 +2142,10 @@ final class SchemaCompiler {
         int hi = f.maxContains;
         int nCap = max >= 0 ? max : Math.max(min, 1);
         int cCap = hi >= 0 ? hi : Math.max(lo, 1);
+        if ((long) (nCap + 1) * (cCap + 1) > MAX_STATES) {
+            throw new SchemaException(f.pointer, "contains", "item and match counts need more than " + MAX_STATES
+                    + " states");
+        }
         Map<Long, Expr> memo = new HashMap<>();
         for (int n = nCap; n >= 0; n--) {
             for (int k = cCap; k >= 0; k--) {
@@ -2136,13 +2180,13 @@ final class SchemaCompiler {
                     int need = Math.max(0, min - n);
                     int room = max < 0 ? Expr.UNBOUNDED : max - n;
                     if (n == 0) {
-                        e = seq(open, item, Expr.repeat(seq(text(p.sep()), item), Math.max(0, need - 1),
+                        e = seq(open, item, rep(seq(text(p.sep()), item), Math.max(0, need - 1),
                                 room == Expr.UNBOUNDED ? Expr.UNBOUNDED : room - 1), text(p.close() + "]"));
                         if (need == 0) {
                             e = choice(List.of(close, e));
                         }
                     } else {
-                        e = seq(Expr.repeat(seq(text(p.sep()), item), need, room), close);
+                        e = seq(rep(seq(text(p.sep()), item), need, room), close);
                     }
                 } else {
                     List<Expr> opts = new ArrayList<>();
@@ -2319,9 +2363,9 @@ final class SchemaCompiler {
         }
         ObjectMachine m = new ObjectMachine(f, kept, members, req, tail, p, name);
         if (options.order() == SchemaOptions.Order.ANY && kept.size() > 1) {
-            if (kept.size() > options.anyOrderLimit()) {
+            if (kept.size() > Math.min(options.anyOrderLimit(), MAX_ANY_ORDER)) {
                 refuse(f.pointer, "properties", "the object has " + kept.size() + " named properties, more than the "
-                        + "limit of " + options.anyOrderLimit() + " for any order"
+                        + "limit of " + Math.min(options.anyOrderLimit(), MAX_ANY_ORDER) + " for any order"
                         + (options.lenient() ? "; schema order is used" : ""));
                 return m.schemaOrder();
             }
@@ -2465,6 +2509,14 @@ final class SchemaCompiler {
             if (deps.size() > MAX_DEPENDENT * 2) {
                 throw new SchemaException(f.pointer, "dependentRequired", "too many dependencies to enforce");
             }
+            long involved = 0;
+            for (int[] d : deps) {
+                involved |= (1L << d[0]) | (1L << d[1]);
+            }
+            if ((long) (names.size() + 1) * (cap + 1) * (1L << Long.bitCount(involved)) > MAX_STATES) {
+                throw new SchemaException(f.pointer, f.maxProperties >= 0 ? "maxProperties" : "properties",
+                        "the members need more than " + MAX_STATES + " states to count and order");
+            }
         }
 
         private Expr open(int count) {
@@ -2486,9 +2538,9 @@ final class SchemaCompiler {
                 return count == 0 ? text("{}") : close;
             }
             if (count > 0) {
-                return seq(Expr.repeat(seq(text(p.sep()), tail), lo, hi), close);
+                return seq(rep(seq(text(p.sep()), tail), lo, hi), close);
             }
-            Expr some = seq(text("{" + p.open()), tail, Expr.repeat(seq(text(p.sep()), tail), Math.max(0, lo - 1),
+            Expr some = seq(text("{" + p.open()), tail, rep(seq(text(p.sep()), tail), Math.max(0, lo - 1),
                     hi == Expr.UNBOUNDED ? Expr.UNBOUNDED : hi - 1), close);
             return lo == 0 ? choice(List.of(text("{}"), some)) : some;
         }
@@ -2740,7 +2792,7 @@ final class SchemaCompiler {
         List<String> order = new ArrayList<>();
         List<String> named = memberNames(chosen);
         if (options.order() == SchemaOptions.Order.SCHEMA
-                || named.size() > options.anyOrderLimit()) {
+                || named.size() > Math.min(options.anyOrderLimit(), MAX_ANY_ORDER)) {
             for (String n : named) {
                 if (v.has(n)) {
                     order.add(n);
