@@ -451,4 +451,22 @@ class SamplePreviewFeaturesTest {
         String md = h.getContents().getRight().getValue();
         assertTrue(md.contains("line 1, column " + (text.indexOf('Q') + 1)), md);
     }
+
+    @Test
+    void aSampleOfSeveralMegabytesAndBinaryContentArePreviewed() throws Exception {
+        String uri = uri("tags/huge.tag");
+        String text = "ab".repeat(1_500_000) + " 12";
+        assertEquals(List.of(), openAndCheck(client, uri, text));
+        AllowedTokensResult end = allowed(client, uri, new Position(0, text.length()), 100);
+        assertTrue(end.endAllowed());
+        assertEquals(new TreeSet<>(twin(Constraint.regex("[a-zé🍎]* [0-9]+", tiny), " 12".getBytes(StandardCharsets.UTF_8))),
+                new TreeSet<>(end.tokens().stream().map(AllowedTokensResult.AllowedToken::id).toList()),
+                "the allowed tokens after a digit run do not depend on what came before it");
+
+        String binary = uri("tags/binary.tag");
+        String bytes = "abc\u0000\u0001 1";
+        List<Diagnostic> ds = openAndCheck(client, binary, bytes);
+        assertEquals(new Range(new Position(0, 3), new Position(0, 4)), ds.get(0).getRange());
+        assertTrue(ds.get(0).getMessage().startsWith("'\\x00'"), ds.get(0).getMessage());
+    }
 }
