@@ -153,8 +153,15 @@ public final class SamplePreviews implements DocumentFeatures {
         return List.of();
     }
 
+    private static final java.util.regex.Pattern VALUE_BEFORE_CURSOR =
+            java.util.regex.Pattern.compile("\"(vocabulary|layout)\"\\s*:\\s*\"([^\"\\\\]*)$");
+
     @Override
     public CompletionList completion(DocumentSnapshot doc, Position position) {
+        Optional<Path> file = doc.path();
+        if (file.isPresent() && isMapFile(file.get())) {
+            return valueCompletion(doc, position);
+        }
         At at = at(doc, position);
         if (at == null || at.preview == null) {
             return new CompletionList(true, List.of());
@@ -327,6 +334,29 @@ public final class SamplePreviews implements DocumentFeatures {
             }
         }
         return out;
+    }
+
+    /** In the workspace file, inside the string value of {@code vocabulary} or {@code layout}: the known values. */
+    private static CompletionList valueCompletion(DocumentSnapshot doc, Position position) {
+        int offset = doc.offset(position);
+        int lineStart = doc.lineStart(doc.position(offset).getLine());
+        java.util.regex.Matcher m = VALUE_BEFORE_CURSOR.matcher(doc.text().substring(lineStart, offset));
+        if (!m.find()) {
+            return new CompletionList(false, List.of());
+        }
+        List<String> values = m.group(1).equals("layout") ? List.of("compact", "pretty")
+                : dev.espalier.vocab.Vocabularies.builtinNames();
+        Range typed = doc.range(offset - m.group(2).length(), offset);
+        List<CompletionItem> items = new ArrayList<>();
+        for (String v : values) {
+            CompletionItem item = new CompletionItem(v);
+            item.setKind(CompletionItemKind.Value);
+            item.setDetail(m.group(1).equals("layout") ? "JSON layout of a schema's samples"
+                    : "built-in vocabulary" + (v.equals(SampleMapReader.DEFAULT_VOCABULARY) ? " (the default)" : ""));
+            item.setTextEdit(Either.forLeft(new TextEdit(typed, v)));
+            items.add(item);
+        }
+        return new CompletionList(false, items);
     }
 
     /** On an entry of the workspace file: what it maps and how far its preview is prepared. */
