@@ -15,6 +15,9 @@ import dev.espalier.mask.Cursor;
 import dev.espalier.mask.TokenBits;
 import dev.espalier.vocab.TokenText;
 import dev.espalier.vocab.Vocabulary;
+import org.eclipse.lsp4j.CodeAction;
+import org.eclipse.lsp4j.CodeActionKind;
+import org.eclipse.lsp4j.CodeActionParams;
 import org.eclipse.lsp4j.CompletionItem;
 import org.eclipse.lsp4j.CompletionItemKind;
 import org.eclipse.lsp4j.CompletionList;
@@ -27,6 +30,7 @@ import org.eclipse.lsp4j.MarkupKind;
 import org.eclipse.lsp4j.Position;
 import org.eclipse.lsp4j.Range;
 import org.eclipse.lsp4j.TextEdit;
+import org.eclipse.lsp4j.WorkspaceEdit;
 import org.eclipse.lsp4j.jsonrpc.ResponseErrorException;
 import org.eclipse.lsp4j.jsonrpc.messages.Either;
 import org.eclipse.lsp4j.jsonrpc.messages.ResponseError;
@@ -283,6 +287,37 @@ public final class SamplePreviews implements DocumentFeatures {
             tokens.add(new AllowedTokensResult.AllowedToken(id, v.display(id)));
         }
         return new AllowedTokensResult(p.count(), v.tokenCount(), p.endAllowed(), TokenText.escape(p.forced()), tokens);
+    }
+
+    /**
+     * For an {@code incomplete} note whose text has a forced continuation: a quick fix that appends
+     * it (its whole UTF-8 characters).
+     */
+    @Override
+    public List<CodeAction> codeActions(DocumentSnapshot doc, CodeActionParams params) {
+        List<CodeAction> out = new ArrayList<>();
+        List<Diagnostic> ds = params.getContext() == null || params.getContext().getDiagnostics() == null ? List.of()
+                : params.getContext().getDiagnostics();
+        for (Diagnostic d : ds) {
+            if (d.getCode() == null || !d.getCode().isLeft() || !"incomplete".equals(d.getCode().getLeft())) {
+                continue;
+            }
+            At at = at(doc, d.getRange().getEnd());
+            if (at == null || at.preview == null || at.preview.rejected() || at.preview.forced().length == 0) {
+                continue;
+            }
+            String insert = insertText(at.preview.forced());
+            if (insert.isEmpty()) {
+                continue;
+            }
+            CodeAction a = new CodeAction("Append the forced continuation " + TokenText.escape(
+                    insert.getBytes(StandardCharsets.UTF_8)));
+            a.setKind(CodeActionKind.QuickFix);
+            a.setDiagnostics(List.of(d));
+            a.setEdit(new WorkspaceEdit(Map.of(doc.uri(), List.of(new TextEdit(doc.range(at.offset, at.offset), insert)))));
+            out.add(a);
+        }
+        return out;
     }
 
     @Override
