@@ -93,6 +93,8 @@ public class LanguageServerBenchmark {
     private Position bodyPosition;
     private Position hoverPosition;
     private GrammarFeatures direct;
+    private java.util.concurrent.Future<Void> clientListening;
+    private PipedOutputStream toServer;
     private String text;
 
     /**
@@ -127,7 +129,8 @@ public class LanguageServerBenchmark {
         PipedOutputStream toClient = new PipedOutputStream(clientIn);
         EspalierServer.launch(server, serverIn, toClient).startListening();
         Launcher<LanguageServer> client = LSPLauncher.createClientLauncher(new Client(), clientIn, toServer);
-        client.startListening();
+        clientListening = client.startListening();
+        this.toServer = toServer;
         remote = client.getRemoteProxy();
         InitializeParams init = new InitializeParams();
         init.setCapabilities(new ClientCapabilities());
@@ -186,7 +189,11 @@ public class LanguageServerBenchmark {
     @TearDown(Level.Trial)
     public void tearDown() throws Exception {
         remote.shutdown().get(60, TimeUnit.SECONDS);
+        // stop reading before the server's threads end (a piped stream fails once its writer thread is gone)
+        clientListening.cancel(true);
         remote.exit();
+        server.exitCode().get(60, TimeUnit.SECONDS);
+        toServer.close();
     }
 
     private CompletableFuture<PublishDiagnosticsParams> expect(int v) {

@@ -73,7 +73,7 @@ class GrammarFeaturesFuzzTest {
         };
         GrammarFeatures f = new GrammarFeatures(context);
         Random rnd = new Random(2024);
-        for (int round = 0; round < 60; round++) {
+        for (int round = 0; round < 40; round++) {
             String base = library.get(rnd.nextInt(library.size()));
             StringBuilder sb = new StringBuilder(base);
             for (int k = 1 + rnd.nextInt(4); k > 0; k--) {

@@ -235,11 +235,13 @@ final class TestClient implements LanguageClient, AutoCloseable {
     public void close() throws Exception {
         try {
             get(remote.shutdown());
+            // stop reading before the server's threads end (a piped stream fails once its writer thread is gone)
+            clientListening.cancel(true);
             remote.exit();
             server.exitCode().get(TIMEOUT_SECONDS, TimeUnit.SECONDS);
         } finally {
-            toServer.close();
             clientListening.cancel(true);
+            toServer.close();
             serverListening.cancel(true);
         }
     }
