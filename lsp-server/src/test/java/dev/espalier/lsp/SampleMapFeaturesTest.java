@@ -80,6 +80,13 @@ class SampleMapFeaturesTest {
             assertEquals(rangeOf(text, "\"row (\""), regex.getRange());
             assertTrue(regex.getMessage().contains("regular expression"), regex.getMessage());
 
+            // hover on the entry: what it maps, and that the pattern cannot be compiled
+            org.eclipse.lsp4j.Hover h = TestClient.get(c.remote.getTextDocumentService().hover(new org.eclipse.lsp4j.HoverParams(
+                    new org.eclipse.lsp4j.TextDocumentIdentifier(mapUri), rangeOf(text, "tags/*").getStart())));
+            String md = h.getContents().getRight().getValue();
+            assertTrue(md.contains("regex row ( on letters.ranks") && md.contains("`tags/*`")
+                    && md.contains("regular expression is not valid"), md);
+
             // the sample names the same problem, on its first line
             List<Diagnostic> sample = SamplePreviewFeaturesTest.openAndCheck(c, uri("tags/a.tag"), "row 1\nrow 2");
             assertEquals(1, sample.size(), sample.toString());
@@ -144,6 +151,12 @@ class SampleMapFeaturesTest {
             AllowedTokensResult r = TestClient.get(c.remote.allowedTokens(new AllowedTokensParams(sample,
                     new Position(0, 6), 50)));
             assertEquals(false, r.endAllowed(), "the open grammar wants a final !");
+            String mapText = Files.readString(ws.resolve(SampleMap.FILE_NAME));
+            c.open(uri(SampleMap.FILE_NAME), mapText);
+            org.eclipse.lsp4j.Hover h = TestClient.get(c.remote.getTextDocumentService().hover(new org.eclipse.lsp4j.HoverParams(
+                    new org.eclipse.lsp4j.TextDocumentIdentifier(uri(SampleMap.FILE_NAME)), rangeOf(mapText, "tree.abnf").getStart())));
+            String md = h.getContents().getRight().getValue();
+            assertTrue(md.contains("compiled: byte DFA") && md.contains("tokens in letters.ranks"), md);
         }
     }
 
@@ -169,10 +182,55 @@ class SampleMapFeaturesTest {
                 assertEquals(rangeOf(text, "\"count.schema.json\""), onMap.get(0).getRange());
             } else {
                 // Jackson as the reference: "42" is an integer, "42x" is not JSON
-                new ObjectMapper().readTree("42");
+                assertTrue(new ObjectMapper().readTree("42").isIntegralNumber());
                 assertEquals("leaves-language", code(sample.get(0)));
                 assertEquals(new Range(new Position(0, 2), new Position(0, 3)), sample.get(0).getRange());
             }
+        }
+    }
+
+    @Test
+    void whileThePreviewIsPreparedFeaturesSaySoAndDiagnosticsFollowWhenReady() throws Exception {
+        java.util.concurrent.CountDownLatch hold = new java.util.concurrent.CountDownLatch(1);
+        java.util.concurrent.ExecutorService threads = java.util.concurrent.Executors.newSingleThreadExecutor();
+        java.util.concurrent.Executor held = task -> threads.execute(() -> {
+            try {
+                hold.await();
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+            task.run();
+        });
+        start().close(); // writes the vocabulary file
+        try (TestClient c = TestClient.start(ServerOptions.defaults().withDebounce(Duration.ZERO)
+                .withSamples(SamplePreviews.features(new PreviewCache(held))), ws)) {
+            Files.writeString(ws.resolve(SampleMap.FILE_NAME),
+                    map("{\"files\": \"tags/*.tag\", \"regex\": \"row [0-9]\", \"vocabulary\": \"letters.ranks\"}"));
+            String sample = uri("tags/d.tag");
+            c.open(sample, "row x");
+            List<Diagnostic> first = c.diagnostics(sample).getDiagnostics();
+            assertEquals(List.of("preview-preparing"), first.stream().map(SampleMapFeaturesTest::code).toList());
+            assertEquals(DiagnosticSeverity.Information, first.get(0).getSeverity());
+            java.util.concurrent.ExecutionException e = org.junit.jupiter.api.Assertions.assertThrows(
+                    java.util.concurrent.ExecutionException.class, () -> TestClient.get(c.remote.allowedTokens(
+                            new AllowedTokensParams(sample, new Position(0, 4), 10))));
+            org.eclipse.lsp4j.jsonrpc.ResponseErrorException re = org.junit.jupiter.api.Assertions.assertInstanceOf(
+                    org.eclipse.lsp4j.jsonrpc.ResponseErrorException.class, e.getCause());
+            assertEquals(org.eclipse.lsp4j.jsonrpc.messages.ResponseErrorCode.RequestFailed.getValue(),
+                    re.getResponseError().getCode());
+            assertTrue(re.getMessage().contains("preparing"), re.getMessage());
+            org.eclipse.lsp4j.CompletionList none = TestClient.get(c.remote.getTextDocumentService().completion(
+                    new org.eclipse.lsp4j.CompletionParams(new org.eclipse.lsp4j.TextDocumentIdentifier(sample),
+                            new Position(0, 4)))).getRight();
+            assertTrue(none.isIncomplete() && none.getItems().isEmpty());
+
+            hold.countDown();
+            List<Diagnostic> ready = SamplePreviewFeaturesTest.settled(c, sample);
+            assertEquals(List.of("leaves-language"), ready.stream().map(SampleMapFeaturesTest::code).toList());
+            assertEquals(new Range(new Position(0, 4), new Position(0, 5)), ready.get(0).getRange());
+        } finally {
+            hold.countDown();
+            threads.shutdownNow();
         }
     }
 }

@@ -22,7 +22,7 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CompletionException;
-import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executor;
 import java.util.concurrent.Executors;
 
 /**
@@ -31,7 +31,8 @@ import java.util.concurrent.Executors;
  * waits for a vocabulary to load or a grammar to compile.
  *
  * <p>Bounded: at most {@link #MAX_VOCABULARIES} vocabularies and {@link #MAX_CONSTRAINTS}
- * constraints are kept, the least recently used evicted first. A vocabulary file is known by its
+ * constraints are kept, the least recently used evicted first, each constraint's mask cache within
+ * {@link #MASK_CACHE_BYTES}. A vocabulary file is known by its
  * path, size and modification time, so a replaced file is loaded again; a constraint source by its
  * full text (the grammar or schema as the editor holds it, or the pattern).
  *
@@ -42,13 +43,17 @@ public final class PreviewCache {
     /** Most vocabularies kept at once. */
     public static final int MAX_VOCABULARIES = 3;
     /** Most compiled constraints kept at once. */
-    public static final int MAX_CONSTRAINTS = 16;
+    public static final int MAX_CONSTRAINTS = 8;
+    /**
+     * The mask-cache budget of each compiled constraint: a preview visits few states, and the
+     * constraints kept together stay within {@code MAX_CONSTRAINTS} times this (128 MiB).
+     */
+    public static final long MASK_CACHE_BYTES = 16L << 20;
 
-    private final ExecutorService worker = Executors.newSingleThreadExecutor(r -> {
-        Thread t = new Thread(r, "espalier-preview-compile");
-        t.setDaemon(true);
-        return t;
-    });
+    private static final dev.espalier.mask.MaskSettings SETTINGS =
+            dev.espalier.mask.MaskSettings.defaults().withCacheBudget(MASK_CACHE_BYTES);
+
+    private final Executor worker;
     private final Map<Object, CompletableFuture<Vocabulary>> vocabularies = lru(MAX_VOCABULARIES);
     private final Map<Source, CompletableFuture<Constraint>> constraints = lru(MAX_CONSTRAINTS);
 
@@ -79,6 +84,20 @@ public final class PreviewCache {
         public PreviewException(String message) {
             super(message, null, false, false);
         }
+    }
+
+    /** A cache preparing on a daemon thread of its own. */
+    public PreviewCache() {
+        this(Executors.newSingleThreadExecutor(r -> {
+            Thread t = new Thread(r, "espalier-preview-compile");
+            t.setDaemon(true);
+            return t;
+        }));
+    }
+
+    /** A cache preparing on the given executor (a host's own threads). */
+    public PreviewCache(Executor worker) {
+        this.worker = java.util.Objects.requireNonNull(worker);
     }
 
     /** The key a vocabulary is cached under: its built-in name, or its file with size and time. */
@@ -176,9 +195,9 @@ public final class PreviewCache {
     private static Constraint compile(Source s, Vocabulary v) {
         try {
             return switch (s.kind()) {
-                case REGEX -> Constraint.regex(s.text(), v);
-                case GRAMMAR -> Constraint.grammar(grammar(s), v);
-                case SCHEMA -> Constraint.grammar(schema(s), v);
+                case REGEX -> Constraint.regex(s.text(), v, SETTINGS);
+                case GRAMMAR -> Constraint.grammar(grammar(s), v, SETTINGS);
+                case SCHEMA -> Constraint.grammar(schema(s), v, SETTINGS);
             };
         } catch (PreviewException e) {
             throw e;

@@ -129,7 +129,13 @@ public final class SamplePreviews implements DocumentFeatures {
         }
         String text = doc.text();
         String sample = withoutFinalLineBreak(text);
-        TokenPreview p = preview(doc.uri(), r.constraint, sample.getBytes(StandardCharsets.UTF_8));
+        TokenPreview p;
+        try {
+            p = preview(doc.uri(), r.constraint, sample.getBytes(StandardCharsets.UTF_8));
+        } catch (PreviewException x) {
+            return List.of(diagnostic(doc.range(0, doc.lineEnd(0)), DiagnosticSeverity.Warning, "preview-unavailable",
+                    "no token preview: " + x.getMessage()));
+        }
         if (p.rejected()) {
             int at = Utf8Offsets.charOffset(sample, p.rejectedAt());
             int end = at < sample.length() ? at + Utf8Offsets.width(sample, at) : at;
@@ -213,6 +219,10 @@ public final class SamplePreviews implements DocumentFeatures {
 
     @Override
     public Hover hover(DocumentSnapshot doc, Position position) {
+        Optional<Path> file = doc.path();
+        if (file.isPresent() && isMapFile(file.get())) {
+            return entryHover(doc, file.get(), position);
+        }
         At at = at(doc, position);
         if (at == null) {
             return null;
@@ -317,6 +327,41 @@ public final class SamplePreviews implements DocumentFeatures {
             }
         }
         return out;
+    }
+
+    /** On an entry of the workspace file: what it maps and how far its preview is prepared. */
+    private Hover entryHover(DocumentSnapshot doc, Path file, Position position) {
+        SampleMap map = readMap(file, doc.text());
+        int offset = doc.offset(position);
+        for (Entry e : map.entries()) {
+            if (offset < doc.offset(e.range().getStart()) || offset > doc.offset(e.range().getEnd())) {
+                continue;
+            }
+            StringBuilder sb = new StringBuilder("**").append(e.describe()).append("**\n\nfiles: ");
+            sb.append(String.join(", ", e.globs().stream().map(g -> "`" + g.value() + "`").toList()));
+            String status;
+            try {
+                Source src = source(e);
+                CompletableFuture<Constraint> f = cache.peek(src);
+                if (f == null) {
+                    PreviewCache.checkWithoutVocabulary(src);
+                    status = "not compiled yet (it is, when a sample it maps is opened)";
+                } else if (!f.isDone()) {
+                    status = "being prepared";
+                } else if (f.isCompletedExceptionally()) {
+                    status = "cannot be compiled: " + failureOf(f);
+                } else {
+                    Constraint c = f.join();
+                    status = "compiled: " + c.describe() + "; " + String.format(Locale.ROOT, "%,d", c.vocabulary().tokenCount())
+                            + " tokens in " + c.vocabulary().name();
+                }
+            } catch (PreviewException x) {
+                status = x.getMessage();
+            }
+            sb.append("\n\n").append(status);
+            return new Hover(new MarkupContent(MarkupKind.MARKDOWN, sb.toString()), e.range());
+        }
+        return null;
     }
 
     /** The workspace file's parse, read again only when its text changed; a change refreshes every document. */
@@ -436,12 +481,21 @@ public final class SamplePreviews implements DocumentFeatures {
             return null;
         }
         int offset = doc.offset(position);
+        String text = doc.text();
+        if (offset > 0 && offset < text.length() && Character.isHighSurrogate(text.charAt(offset - 1))
+                && Character.isLowSurrogate(text.charAt(offset))) {
+            offset--; // between the two halves of a character: its start
+        }
         Ready r = ready(doc.uri(), b.get());
         if (r.constraint == null) {
             return new At(b.get(), offset, null, r.message);
         }
         byte[] prefix = doc.text().substring(0, offset).getBytes(StandardCharsets.UTF_8);
-        return new At(b.get(), offset, preview(doc.uri(), r.constraint, prefix), null);
+        try {
+            return new At(b.get(), offset, preview(doc.uri(), r.constraint, prefix), null);
+        } catch (PreviewException x) {
+            return new At(b.get(), offset, null, "no token preview: " + x.getMessage());
+        }
     }
 
     /**
@@ -457,7 +511,13 @@ public final class SamplePreviews implements DocumentFeatures {
             from = last.cursor.fork();
             fromBytes = last.bytes.length;
         }
-        TokenPreview p = TokenPreview.compute(c, prefix, from, fromBytes);
+        TokenPreview p;
+        try {
+            p = TokenPreview.compute(c, prefix, from, fromBytes);
+        } catch (dev.espalier.earley.EarleyLimitException e) {
+            cursors.remove(uri);
+            throw new PreviewException("the text is too long for the parser's limits here (" + e.getMessage() + ")");
+        }
         if (!p.rejected()) {
             cursors.put(uri, new Reuse(c, prefix, from));
         }
