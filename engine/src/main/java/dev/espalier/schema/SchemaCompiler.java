@@ -1910,7 +1910,22 @@ final class SchemaCompiler {
 
     // ---- numbers
 
+    private final Map<String, Optional<Expr>> numberCache = new HashMap<>();
+
     private Expr numberExpr(Facet f, String name) {
+        String signature = (f.types & (Facet.INT | Facet.FRAC)) + "|" + f.lower + "|" + f.upper + "|" + f.multipleOf
+                + "|" + f.fractionDigits + "|" + f.steps + "|" + f.excluded.stream().filter(JsonNode::isNumber)
+                .map(JsonText::number).toList();
+        Optional<Expr> known = numberCache.get(signature);
+        if (known != null) {
+            return known.orElse(null);
+        }
+        Expr e = numberExprUncached(f, name);
+        numberCache.put(signature, Optional.ofNullable(e));
+        return e;
+    }
+
+    private Expr numberExprUncached(Facet f, String name) {
         try {
             return numbers(f, name);
         } catch (IllegalArgumentException e) {
@@ -2443,11 +2458,19 @@ final class SchemaCompiler {
         return Expr.ref(member);
     }
 
-    /** A rule for the encoded names an automaton of decoded names allows. */
+    private final Map<String, Expr> keyRules = new HashMap<>();
+
+    /** A rule for the encoded names an automaton of decoded names allows (one rule per language). */
     private Expr keyRule(String base, Automaton keys) {
+        String signature = keys.toString();
+        Expr known = keyRules.get(signature);
+        if (known != null) {
+            return known;
+        }
         String rule = fresh(base);
         Expr body = encodedRules(rule, keys);
         rules.add(Rule.of(rule, body));
+        keyRules.put(signature, Expr.ref(rule));
         return Expr.ref(rule);
     }
 
