@@ -1688,7 +1688,7 @@ final class SchemaCompiler {
             return Expr.ref(anyValue(depth));
         }
         if ((f.types & Facet.OBJ) != 0) {
-            add(options, objectExpr(f, depth, name));
+            add(options, objectOf(f, depth, name));
         }
         if ((f.types & Facet.ARR) != 0) {
             add(options, arrayExpr(f, depth, name));
@@ -2015,9 +2015,6 @@ final class SchemaCompiler {
             for (int d = 0; d <= 9; d++) {
                 int next = (r * 10 + d) % c;
                 ints[r][0].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[next][0]));
-                if (s >= 1) {
-                    // the first fraction digit comes after the point: see below
-                }
                 for (int f = 1; f < s; f++) {
                     fracs[r][f].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[next][f + 1]));
                 }
@@ -2313,13 +2310,6 @@ final class SchemaCompiler {
             names.addAll(v);
         });
         return new ArrayList<>(names);
-    }
-
-    private Expr objectExpr(Facet f, int depth, String name) {
-        if (f.types == Facet.OBJ && f.noObjectRules() && f.values == null && f.excluded.isEmpty()) {
-            return objectOf(f, depth, name);
-        }
-        return objectOf(f, depth, name);
     }
 
     /** One member's expression: quoted name, colon, value rule. */
