@@ -1688,7 +1688,7 @@ final class SchemaCompiler {
             return Expr.ref(anyValue(depth));
         }
         if ((f.types & Facet.OBJ) != 0) {
-            add(options, objectExpr(f, depth, name));
+            add(options, objectOf(f, depth, name));
         }
         if ((f.types & Facet.ARR) != 0) {
             add(options, arrayExpr(f, depth, name));
@@ -1910,7 +1910,22 @@ final class SchemaCompiler {
 
     // ---- numbers
 
+    private final Map<String, Optional<Expr>> numberCache = new HashMap<>();
+
     private Expr numberExpr(Facet f, String name) {
+        String signature = (f.types & (Facet.INT | Facet.FRAC)) + "|" + f.lower + "|" + f.upper + "|" + f.multipleOf
+                + "|" + f.fractionDigits + "|" + f.steps + "|" + f.excluded.stream().filter(JsonNode::isNumber)
+                .map(JsonText::number).toList();
+        Optional<Expr> known = numberCache.get(signature);
+        if (known != null) {
+            return known.orElse(null);
+        }
+        Expr e = numberExprUncached(f, name);
+        numberCache.put(signature, Optional.ofNullable(e));
+        return e;
+    }
+
+    private Expr numberExprUncached(Facet f, String name) {
         try {
             return numbers(f, name);
         } catch (IllegalArgumentException e) {
@@ -2000,9 +2015,6 @@ final class SchemaCompiler {
             for (int d = 0; d <= 9; d++) {
                 int next = (r * 10 + d) % c;
                 ints[r][0].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[next][0]));
-                if (s >= 1) {
-                    // the first fraction digit comes after the point: see below
-                }
                 for (int f = 1; f < s; f++) {
                     fracs[r][f].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[next][f + 1]));
                 }
@@ -2300,13 +2312,6 @@ final class SchemaCompiler {
         return new ArrayList<>(names);
     }
 
-    private Expr objectExpr(Facet f, int depth, String name) {
-        if (f.types == Facet.OBJ && f.noObjectRules() && f.values == null && f.excluded.isEmpty()) {
-            return objectOf(f, depth, name);
-        }
-        return objectOf(f, depth, name);
-    }
-
     /** One member's expression: quoted name, colon, value rule. */
     private Expr member(String quotedKey, Facet.Sub value, int depth, JsonText.Punct p) {
         return seq(text(quotedKey + p.colon()), Expr.ref(ruleFor(value, depth + 1)));
@@ -2443,11 +2448,19 @@ final class SchemaCompiler {
         return Expr.ref(member);
     }
 
-    /** A rule for the encoded names an automaton of decoded names allows. */
+    private final Map<String, Expr> keyRules = new HashMap<>();
+
+    /** A rule for the encoded names an automaton of decoded names allows (one rule per language). */
     private Expr keyRule(String base, Automaton keys) {
+        String signature = keys.toString();
+        Expr known = keyRules.get(signature);
+        if (known != null) {
+            return known;
+        }
         String rule = fresh(base);
         Expr body = encodedRules(rule, keys);
         rules.add(Rule.of(rule, body));
+        keyRules.put(signature, Expr.ref(rule));
         return Expr.ref(rule);
     }
 
