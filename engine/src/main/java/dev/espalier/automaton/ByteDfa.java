@@ -390,14 +390,16 @@ public final class ByteDfa {
                 }
             }
         }
-        return minimize(rows, accept);
+        return minimize(rows, accept, classOf);
     }
 
     /**
      * Trims {@code rows} to the states that can reach acceptance, groups bytes into classes, and
      * minimises by Moore's partition refinement (rounds until the partition stops changing).
+     * {@code inputClass} is a byte partition every row respects (bytes of one class have one target
+     * in every row), so one column per input class is enough to find the final classes.
      */
-    private static ByteDfa minimize(List<int[]> rows, boolean[] acc) {
+    private static ByteDfa minimize(List<int[]> rows, boolean[] acc, int[] inputClass) {
         int n = acc.length;
         // trim: keep states that can reach an accepting state (breadth-first over reversed edges)
         int[] revStart = new int[n + 1];
@@ -448,7 +450,13 @@ public final class ByteDfa {
         byte[] classOf = new byte[256];
         Map<IntSet, Integer> columns = new HashMap<>();
         int[] representative = new int[256];
+        int[] columnOfInput = new int[257];
+        Arrays.fill(columnOfInput, -1);
         for (int b = 0; b < 256; b++) {
+            if (columnOfInput[inputClass[b]] >= 0) {
+                classOf[b] = (byte) columnOfInput[inputClass[b]];
+                continue;
+            }
             int[] col = new int[m];
             for (int i = 0; i < n; i++) {
                 if (live[i]) {
@@ -462,6 +470,7 @@ public final class ByteDfa {
                 representative[c] = b;
             }
             classOf[b] = (byte) c;
+            columnOfInput[inputClass[b]] = c;
         }
         int classes = columns.size();
         int[] delta = new int[m * classes];
