@@ -232,6 +232,7 @@ public final class SplitGrammar {
         final List<ByteDfa> dfas = new ArrayList<>();
         final Map<String, Integer> ruleNt = new HashMap<>();
         final Map<String, Integer> lexSymbol = new HashMap<>();
+        final Map<String, Boolean> largeRules = new HashMap<>();
         final IdentityHashMap<Expr, Boolean> lexical = new IdentityHashMap<>();
         final Deque<String> pendingRules = new ArrayDeque<>();
         final int augmented;
@@ -477,25 +478,79 @@ public final class SplitGrammar {
                 return nt;
             }
             if (fragment instanceof Expr.Repeat r) {
-                return repeatSymbol(r, lexicalSymbol(r.body()));
+                return repeatSymbol(r, partSymbol(r.body()));
             }
             int nt = newNt(null);
             if (fragment instanceof Expr.Choice c) {
                 for (Expr o : c.options()) {
-                    prods.add(production(nt, List.of(lexicalSymbol(o))));
+                    prods.add(production(nt, List.of(partSymbol(o))));
                 }
             } else {
                 List<Integer> parts = new ArrayList<>();
                 for (Expr item : ((Expr.Seq) fragment).items()) {
-                    parts.add(lexicalSymbol(item));
+                    parts.add(partSymbol(item));
                 }
                 prods.add(production(nt, parts));
             }
             return nt;
         }
 
+        /**
+         * The symbol of a part of a fragment found too large: lowered structurally at once when it refers
+         * to a rule known to be too large (sparing a second failed automaton), else tried as a terminal.
+         */
+        private int partSymbol(Expr part) {
+            if (divisible(part)) {
+                for (String name : references(part)) {
+                    if (tooLarge(name)) {
+                        String key = ExprKey.of(part);
+                        Integer known = lexSymbol.get(key);
+                        if (known != null) {
+                            return known;
+                        }
+                        int symbol = structuralSymbol(part);
+                        lexSymbol.put(key, symbol);
+                        return symbol;
+                    }
+                }
+            }
+            return lexicalSymbol(part);
+        }
+
+        /**
+         * Whether a lexical rule's automaton crosses the state limit, decided bottom-up: a rule that
+         * refers to a rule too large counts as too large without an attempt (at worst it is split
+         * further, which keeps the language).
+         */
+        private boolean tooLarge(String name) {
+            String key = Grammar.key(name);
+            Boolean known = largeRules.get(key);
+            if (known != null) {
+                return known;
+            }
+            Expr body = rules.apply(name);
+            boolean large = false;
+            if (body != null) {
+                for (String ref : references(body)) {
+                    if (tooLarge(ref)) {
+                        large = true;
+                        break;
+                    }
+                }
+                if (!large) {
+                    try {
+                        ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(body, rules, stateLimit), stateLimit);
+                    } catch (AutomatonTooLargeException e) {
+                        large = true;
+                    }
+                }
+            }
+            largeRules.put(key, large);
+            return large;
+        }
+
         private int symbolOrNothing(Expr body) {
-            int s = lexicalSymbol(body);
+            int s = partSymbol(body);
             if (s != EPSILON) {
                 return s;
             }
