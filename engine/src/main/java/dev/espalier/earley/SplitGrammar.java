@@ -48,6 +48,12 @@ public final class SplitGrammar {
 
     static final int END = Integer.MIN_VALUE;
 
+    /**
+     * Most states of one terminal built from a fragment that has parts: a larger one is lowered into
+     * the skeleton part by part, which compiles faster and keeps per-state mask work small.
+     */
+    public static final int TERMINAL_STATES = 2_000;
+
     final ByteDfa[] terminals;
     final int ntCount;
     final String[] ntName;
@@ -225,6 +231,8 @@ public final class SplitGrammar {
     private static final class Lowering {
         final Grammar g;
         final int stateLimit;
+        /** States a divisible fragment's terminal may have before it is lowered into the skeleton instead. */
+        final int terminalLimit;
         final Function<String, Expr> rules;
         final Set<String> skeleton;
         final List<String> ntNames = new ArrayList<>();
@@ -243,6 +251,7 @@ public final class SplitGrammar {
         Lowering(Grammar g, int stateLimit) {
             this.g = g;
             this.stateLimit = stateLimit;
+            this.terminalLimit = Math.min(stateLimit, TERMINAL_STATES);
             this.rules = name -> g.rule(name).map(Rule::body).orElse(null);
             this.skeleton = skeletonRules(g);
             this.augmented = newNt("start'");
@@ -421,16 +430,18 @@ public final class SplitGrammar {
             }
             ByteDfa dfa;
             boolean nullable;
+            boolean divisible = divisible(fragment) && !(fragment instanceof Expr.Repeat r
+                    && (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT));
+            int limit = divisible ? terminalLimit : stateLimit;
             try {
-                Automaton a = CharAutomata.compileUnminimized(fragment, rules, stateLimit);
+                Automaton a = CharAutomata.compileUnminimized(fragment, rules, limit);
                 nullable = a.run("");
                 if (nullable) {
                     a = a.minus(Automaton.makeEmptyString());
                 }
-                dfa = ByteDfa.fromCharAutomaton(a, stateLimit);
+                dfa = ByteDfa.fromCharAutomaton(a, limit);
             } catch (AutomatonTooLargeException e) {
-                if (!divisible(fragment) || fragment instanceof Expr.Repeat r
-                        && (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT)) {
+                if (!divisible) {
                     throw e;
                 }
                 int symbol = structuralSymbol(fragment);
@@ -539,7 +550,8 @@ public final class SplitGrammar {
                 }
                 if (!large) {
                     try {
-                        ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(body, rules, stateLimit), stateLimit);
+                        ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(body, rules, terminalLimit),
+                                terminalLimit);
                     } catch (AutomatonTooLargeException e) {
                         large = true;
                     }
