@@ -128,19 +128,31 @@ final class SplitConstraint extends ChartConstraint {
             c.pushEnds(t, origins, m);
             try {
                 c.expectedBytes(first);
-                int f0 = (int) first[0];
-                int f1 = (int) (first[0] >>> 32);
-                int f2 = (int) first[1];
-                int f3 = (int) (first[1] >>> 32);
-                int f4 = (int) first[2];
-                int f5 = (int) (first[2] >>> 32);
-                int f6 = (int) first[3];
-                int f7 = (int) (first[3] >>> 32);
-                for (int e = 0; e < nodes.length; e += NODE_STRIDE) {
-                    // a node none of whose children begins with an expected byte is skipped outright
-                    if ((nodes[e + 1] & f0 | nodes[e + 2] & f1 | nodes[e + 3] & f2 | nodes[e + 4] & f3
-                            | nodes[e + 5] & f4 | nodes[e + 6] & f5 | nodes[e + 7] & f6 | nodes[e + 8] & f7) != 0) {
-                        walk(c, nodes[e], trie.skip(nodes[e]), first, mask);
+                long[] second = SECOND.get();
+                for (int w = 0; w < 4; w++) {
+                    for (long bits = first[w]; bits != 0; bits &= bits - 1) {
+                        int by = (w << 6) + Long.numberOfTrailingZeros(bits);
+                        int from = nodes[by];
+                        int to = nodes[by + 1];
+                        // the children of boundary nodes that begin with this byte share its feed
+                        if (from == to || !c.feed(by)) {
+                            continue;
+                        }
+                        try {
+                            c.expectedBytes(second);
+                            for (int x = from; x < to; x++) {
+                                int j = nodes[x];
+                                for (int y = trie.tokensFrom(j), end = trie.tokensTo(j); y < end; y++) {
+                                    int id = trie.tokenAt(y);
+                                    mask[id >>> 6] |= 1L << id;
+                                }
+                                if (trie.skip(j) > j + 1) {
+                                    walkSplit(c, j, trie.skip(j), second, mask);
+                                }
+                            }
+                        } finally {
+                            c.undo(1);
+                        }
                     }
                 }
             } finally {
@@ -149,8 +161,13 @@ final class SplitConstraint extends ChartConstraint {
         }
     }
 
-    /** Ints per boundary node: the trie node, then eight words of its children's byte set (bit b of word b/32). */
-    private static final int NODE_STRIDE = 9;
+    /**
+     * Layout of boundary entries: {@code nodes[b]..nodes[b+1]} index the children, beginning with byte
+     * b, of the trie nodes where the lexeme may end; the children follow the 257 offsets.
+     */
+    private static final int BUCKETS = 257;
+
+    private static final ThreadLocal<long[]> SECOND = ThreadLocal.withInitial(() -> new long[4]);
 
     private static final ThreadLocal<int[][]> ORIGINS = ThreadLocal.withInitial(() -> new int[1][64]);
 
@@ -160,6 +177,39 @@ final class SplitConstraint extends ChartConstraint {
             holder[0] = new int[Math.max(n, holder[0].length * 2)];
         }
         return holder[0];
+    }
+
+    /**
+     * {@link ChartConstraint#walk} with the chart's class known: the hot loop of every boundary walk
+     * gets direct calls, whatever other charts the process has met (a shared, polymorphic walk had
+     * the JIT recompile it, several times slower, once a byte-level chart went through it).
+     */
+    private void walkSplit(SplitChart chart, int from, int to, long[] first, long[] mask) {
+        VocabularyTrie t = trie;
+        int base = chart.depth();
+        int baseDepth = t.depth(from);
+        int i = from + 1;
+        try {
+            while (i < to) {
+                int rel = t.depth(i) - baseDepth;
+                int excess = chart.depth() - (base + rel - 1);
+                if (excess > 0) {
+                    chart.undo(excess);
+                }
+                int b = t.label(i) & 0xFF;
+                if ((rel == 1 && (first[b >>> 6] & (1L << b)) == 0) || !chart.feed(b)) {
+                    i = t.skip(i);
+                    continue;
+                }
+                for (int k = t.tokensFrom(i), end = t.tokensTo(i); k < end; k++) {
+                    int id = t.tokenAt(k);
+                    mask[id >>> 6] |= 1L << id;
+                }
+                i++;
+            }
+        } finally {
+            chart.undo(chart.depth() - base);
+        }
     }
 
     /** Tokens that keep terminal {@code t}'s DFA alive from {@code q}. */
@@ -179,7 +229,7 @@ final class SplitConstraint extends ChartConstraint {
 
     /**
      * Trie nodes with children at which terminal {@code t}'s DFA, started in {@code q}, accepts: the
-     * lexeme may end there and the token go on ({@link #NODE_STRIDE} ints per node).
+     * lexeme may end there and the token go on; their children by byte, laid out as {@link #BUCKETS} says.
      */
     private int[] boundary(int t, int q) {
         int key = boundaryOffset[t] + q;
@@ -199,15 +249,16 @@ final class SplitConstraint extends ChartConstraint {
 
     /**
      * Walks the trie from DFA state {@code q} of terminal {@code t}, pruning at dead bytes: marks in
-     * {@code inside} (when not null) every token reached, and returns the accepting nodes with children,
-     * {@link #NODE_STRIDE} ints each: the node, then the 256-bit set of its children's first bytes.
+     * {@code inside} (when not null) every token reached, and returns the children of the accepting
+     * nodes bucketed by their byte (laid out as {@link #BUCKETS} says), or an empty array when there
+     * are none.
      */
     private int[] lexicalWalk(int t, int q, long[] inside) {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
         int[] at = new int[tr.maxDepth() + 1];
         at[0] = q;
-        int[] out = new int[16 * NODE_STRIDE];
+        int[] out = new int[64];
         int count = 0;
         int n = tr.nodeCount();
         int i = 1;
@@ -226,19 +277,32 @@ final class SplitConstraint extends ChartConstraint {
                 }
             }
             if (dfa.accepts(next) && tr.skip(i) > i + 1) {
-                if (count + NODE_STRIDE > out.length) {
-                    out = Arrays.copyOf(out, out.length * 2);
-                }
-                out[count] = i;
                 for (int j = i + 1, end = tr.skip(i); j < end; j = tr.skip(j)) {
-                    int b = tr.label(j) & 0xFF;
-                    out[count + 1 + (b >>> 5)] |= 1 << b;
+                    if (count == out.length) {
+                        out = Arrays.copyOf(out, count * 2);
+                    }
+                    out[count++] = j;
                 }
-                count += NODE_STRIDE;
             }
             i++;
         }
-        return Arrays.copyOf(out, count);
+        if (count == 0) {
+            return new int[0];
+        }
+        // counting sort of the children by their byte, behind the 257 bucket offsets
+        int[] nodes = new int[BUCKETS + count];
+        for (int k = 0; k < count; k++) {
+            nodes[(tr.label(out[k]) & 0xFF) + 1]++;
+        }
+        nodes[0] = BUCKETS;
+        for (int by = 0; by < 256; by++) {
+            nodes[by + 1] += nodes[by];
+        }
+        int[] fill = Arrays.copyOf(nodes, 256);
+        for (int k = 0; k < count; k++) {
+            nodes[fill[tr.label(out[k]) & 0xFF]++] = out[k];
+        }
+        return nodes;
     }
 
     @Override
