@@ -233,4 +233,26 @@ class SampleMapFeaturesTest {
             threads.shutdownNow();
         }
     }
+
+    @Test
+    void theWorkspaceFileCompletesVocabularyNamesAndLayouts() throws Exception {
+        try (TestClient c = start()) {
+            String text = map("{\"files\": \"x/*\", \"regex\": \"a\", \"vocabulary\": \"cl\"}");
+            String mapUri = uri(SampleMap.FILE_NAME);
+            c.open(mapUri, text);
+            Position inName = rangeOf(text, "cl\"").getEnd();
+            inName = new Position(inName.getLine(), inName.getCharacter() - 1); // after "cl"
+            org.eclipse.lsp4j.CompletionList list = TestClient.get(c.remote.getTextDocumentService().completion(
+                    new org.eclipse.lsp4j.CompletionParams(new org.eclipse.lsp4j.TextDocumentIdentifier(mapUri), inName))).getRight();
+            assertEquals(dev.espalier.vocab.Vocabularies.builtinNames(), list.getItems().stream()
+                    .map(org.eclipse.lsp4j.CompletionItem::getLabel).toList());
+            org.eclipse.lsp4j.CompletionItem cl = list.getItems().stream().filter(i -> i.getLabel().equals("cl100k"))
+                    .findFirst().orElseThrow();
+            assertEquals(text.replace("\"cl\"", "\"cl100k\""), Edits.apply(text, List.of(cl.getTextEdit().getLeft())));
+            Position outside = new Position(0, 1);
+            assertEquals(List.of(), TestClient.get(c.remote.getTextDocumentService().completion(
+                    new org.eclipse.lsp4j.CompletionParams(new org.eclipse.lsp4j.TextDocumentIdentifier(mapUri), outside)))
+                    .getRight().getItems());
+        }
+    }
 }

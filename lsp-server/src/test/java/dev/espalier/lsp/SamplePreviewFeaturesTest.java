@@ -451,4 +451,42 @@ class SamplePreviewFeaturesTest {
         String md = h.getContents().getRight().getValue();
         assertTrue(md.contains("line 1, column " + (text.indexOf('Q') + 1)), md);
     }
+
+    @Test
+    void aSampleOfSeveralMegabytesAndBinaryContentArePreviewed() throws Exception {
+        String uri = uri("tags/huge.tag");
+        String text = "ab".repeat(1_500_000) + " 12";
+        assertEquals(List.of(), openAndCheck(client, uri, text));
+        AllowedTokensResult end = allowed(client, uri, new Position(0, text.length()), 100);
+        assertTrue(end.endAllowed());
+        assertEquals(new TreeSet<>(twin(Constraint.regex("[a-zé🍎]* [0-9]+", tiny), " 12".getBytes(StandardCharsets.UTF_8))),
+                new TreeSet<>(end.tokens().stream().map(AllowedTokensResult.AllowedToken::id).toList()),
+                "the allowed tokens after a digit run do not depend on what came before it");
+
+        String binary = uri("tags/binary.tag");
+        String bytes = "abc\u0000\u0001 1";
+        List<Diagnostic> ds = openAndCheck(client, binary, bytes);
+        assertEquals(new Range(new Position(0, 3), new Position(0, 4)), ds.get(0).getRange());
+        assertTrue(ds.get(0).getMessage().startsWith("'\\x00'"), ds.get(0).getMessage());
+    }
+
+    @Test
+    void anIncompleteTextWithAForcedContinuationGetsAQuickFixThatAppendsIt() throws Exception {
+        String uri = uri("orders/forced.txt");
+        String text = "graft tree T-0042 with Russet";
+        List<Diagnostic> ds = openAndCheck(client, uri, text + "\n");
+        assertEquals("incomplete", code(ds.get(0)));
+        org.eclipse.lsp4j.CodeActionParams params = new org.eclipse.lsp4j.CodeActionParams(new TextDocumentIdentifier(uri),
+                ds.get(0).getRange(), new org.eclipse.lsp4j.CodeActionContext(ds));
+        List<org.eclipse.lsp4j.CodeAction> actions = TestClient.get(client.remote.getTextDocumentService().codeAction(params))
+                .stream().map(e -> e.getRight()).toList();
+        assertEquals(1, actions.size(), actions.toString());
+        // the grammar's only variety starting "Russet" is "Russet Vale", then " on RS-" follows
+        Cursor k = workOrderOn(CACHE.vocabulary(new SampleMap.VocabularySpec("cl100k", null, null)).get()).start();
+        k.feedText(text);
+        String forced = new String(k.forcedBytes(), StandardCharsets.UTF_8);
+        assertEquals(" Vale on RS-", forced);
+        String fixed = Edits.apply(text + "\n", actions.get(0).getEdit().getChanges().get(uri));
+        assertEquals(text + forced + "\n", fixed);
+    }
 }

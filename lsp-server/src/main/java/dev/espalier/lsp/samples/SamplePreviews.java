@@ -15,6 +15,9 @@ import dev.espalier.mask.Cursor;
 import dev.espalier.mask.TokenBits;
 import dev.espalier.vocab.TokenText;
 import dev.espalier.vocab.Vocabulary;
+import org.eclipse.lsp4j.CodeAction;
+import org.eclipse.lsp4j.CodeActionKind;
+import org.eclipse.lsp4j.CodeActionParams;
 import org.eclipse.lsp4j.CompletionItem;
 import org.eclipse.lsp4j.CompletionItemKind;
 import org.eclipse.lsp4j.CompletionList;
@@ -27,6 +30,7 @@ import org.eclipse.lsp4j.MarkupKind;
 import org.eclipse.lsp4j.Position;
 import org.eclipse.lsp4j.Range;
 import org.eclipse.lsp4j.TextEdit;
+import org.eclipse.lsp4j.WorkspaceEdit;
 import org.eclipse.lsp4j.jsonrpc.ResponseErrorException;
 import org.eclipse.lsp4j.jsonrpc.messages.Either;
 import org.eclipse.lsp4j.jsonrpc.messages.ResponseError;
@@ -153,8 +157,15 @@ public final class SamplePreviews implements DocumentFeatures {
         return List.of();
     }
 
+    private static final java.util.regex.Pattern VALUE_BEFORE_CURSOR =
+            java.util.regex.Pattern.compile("\"(vocabulary|layout)\"\\s*:\\s*\"([^\"\\\\]*)$");
+
     @Override
     public CompletionList completion(DocumentSnapshot doc, Position position) {
+        Optional<Path> file = doc.path();
+        if (file.isPresent() && isMapFile(file.get())) {
+            return valueCompletion(doc, position);
+        }
         At at = at(doc, position);
         if (at == null || at.preview == null) {
             return new CompletionList(true, List.of());
@@ -278,6 +289,37 @@ public final class SamplePreviews implements DocumentFeatures {
         return new AllowedTokensResult(p.count(), v.tokenCount(), p.endAllowed(), TokenText.escape(p.forced()), tokens);
     }
 
+    /**
+     * For an {@code incomplete} note whose text has a forced continuation: a quick fix that appends
+     * it (its whole UTF-8 characters).
+     */
+    @Override
+    public List<CodeAction> codeActions(DocumentSnapshot doc, CodeActionParams params) {
+        List<CodeAction> out = new ArrayList<>();
+        List<Diagnostic> ds = params.getContext() == null || params.getContext().getDiagnostics() == null ? List.of()
+                : params.getContext().getDiagnostics();
+        for (Diagnostic d : ds) {
+            if (d.getCode() == null || !d.getCode().isLeft() || !"incomplete".equals(d.getCode().getLeft())) {
+                continue;
+            }
+            At at = at(doc, d.getRange().getEnd());
+            if (at == null || at.preview == null || at.preview.rejected() || at.preview.forced().length == 0) {
+                continue;
+            }
+            String insert = insertText(at.preview.forced());
+            if (insert.isEmpty()) {
+                continue;
+            }
+            CodeAction a = new CodeAction("Append the forced continuation " + TokenText.escape(
+                    insert.getBytes(StandardCharsets.UTF_8)));
+            a.setKind(CodeActionKind.QuickFix);
+            a.setDiagnostics(List.of(d));
+            a.setEdit(new WorkspaceEdit(Map.of(doc.uri(), List.of(new TextEdit(doc.range(at.offset, at.offset), insert)))));
+            out.add(a);
+        }
+        return out;
+    }
+
     @Override
     public List<String> watchedGlobs() {
         return List.of("**/" + SampleMap.FILE_NAME, "**/*.abnf", "**/*.json");
@@ -327,6 +369,29 @@ public final class SamplePreviews implements DocumentFeatures {
             }
         }
         return out;
+    }
+
+    /** In the workspace file, inside the string value of {@code vocabulary} or {@code layout}: the known values. */
+    private static CompletionList valueCompletion(DocumentSnapshot doc, Position position) {
+        int offset = doc.offset(position);
+        int lineStart = doc.lineStart(doc.position(offset).getLine());
+        java.util.regex.Matcher m = VALUE_BEFORE_CURSOR.matcher(doc.text().substring(lineStart, offset));
+        if (!m.find()) {
+            return new CompletionList(false, List.of());
+        }
+        List<String> values = m.group(1).equals("layout") ? List.of("compact", "pretty")
+                : dev.espalier.vocab.Vocabularies.builtinNames();
+        Range typed = doc.range(offset - m.group(2).length(), offset);
+        List<CompletionItem> items = new ArrayList<>();
+        for (String v : values) {
+            CompletionItem item = new CompletionItem(v);
+            item.setKind(CompletionItemKind.Value);
+            item.setDetail(m.group(1).equals("layout") ? "JSON layout of a schema's samples"
+                    : "built-in vocabulary" + (v.equals(SampleMapReader.DEFAULT_VOCABULARY) ? " (the default)" : ""));
+            item.setTextEdit(Either.forLeft(new TextEdit(typed, v)));
+            items.add(item);
+        }
+        return new CompletionList(false, items);
     }
 
     /** On an entry of the workspace file: what it maps and how far its preview is prepared. */
