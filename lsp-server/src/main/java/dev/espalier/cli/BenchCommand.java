@@ -42,6 +42,10 @@ final class BenchCommand implements Callable<Integer> {
             description = "An ABNF grammar to measure instead of the patterns (repeatable).")
     List<String> grammars;
 
+    @Option(names = "--schema", paramLabel = "FILE",
+            description = "A JSON Schema to measure (repeatable; with --grammar, in the same table).")
+    List<String> schemas;
+
     @Option(names = "--vocab", paramLabel = "NAME|PATH",
             description = "A vocabulary (repeatable; default: cl100k, o200k and Qwen3 when ../shared/vocab has it).")
     List<String> vocabs;
@@ -86,7 +90,7 @@ final class BenchCommand implements Callable<Integer> {
                 pats.put("p" + (i + 1), patterns.get(i));
             }
         }
-        if (grammars != null && !grammars.isEmpty()) {
+        if ((grammars != null && !grammars.isEmpty()) || (schemas != null && !schemas.isEmpty())) {
             return grammarBench(out);
         }
         List<String> vs = vocabs;
@@ -220,6 +224,17 @@ final class BenchCommand implements Callable<Integer> {
     }
 
     private int grammarBench(PrintWriter out) {
+        // every file is read (and its problems reported) before any measurement
+        Map<String, dev.espalier.grammar.Grammar> formats = new LinkedHashMap<>();
+        for (String f : grammars == null ? List.<String>of() : grammars) {
+            formats.put(Path.of(f).getFileName().toString(), GrammarFiles.load(f, null, spec.commandLine().getErr()));
+        }
+        for (String f : schemas == null ? List.<String>of() : schemas) {
+            dev.espalier.grammar.Grammar g = SchemaFiles.load(f, dev.espalier.schema.SchemaOptions.defaults(),
+                    spec.commandLine().getErr()).grammar();
+            formats.put(Path.of(f).getFileName().toString(), g);
+            out.println(schemaCompileTimes(f));
+        }
         out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "grammar", "vocabulary", "1st-mask", "median",
                 "p99", "max", "steps", "cache", "naive", "ratio");
         out.printf("%-22s %-26s %10s %9s %9s %9s %9s %9s %12s %9s%n", "", "", "ms", "µs", "µs", "µs", "", "KiB",
@@ -233,20 +248,38 @@ final class BenchCommand implements Callable<Integer> {
             long t2 = System.nanoTime();
             Progress.note(String.format("%s: %d tokens, loaded in %.0f ms, trie of %d nodes built in %.0f ms",
                     v.name(), v.tokenCount(), (t1 - t0) / 1e6, v.trie().nodeCount(), (t2 - t1) / 1e6));
-            for (String file : grammars) {
-                dev.espalier.grammar.Grammar g = GrammarFiles.load(file, null, spec.commandLine().getErr());
-                if (!warmedUp) {
-                    Progress.note("warming up on " + v.name());
-                    for (String f : grammars) {
-                        grammarRow(f, GrammarFiles.load(f, null, spec.commandLine().getErr()), v, true);
-                    }
-                    warmedUp = true;
+            if (!warmedUp) {
+                Progress.note("warming up on " + v.name());
+                for (Map.Entry<String, dev.espalier.grammar.Grammar> f : formats.entrySet()) {
+                    grammarRow(f.getKey(), f.getValue(), v, true);
                 }
-                out.println(grammarRow(file, g, v, false));
+                warmedUp = true;
+            }
+            for (Map.Entry<String, dev.espalier.grammar.Grammar> f : formats.entrySet()) {
+                out.println(grammarRow(f.getKey(), f.getValue(), v, false));
                 out.flush();
             }
         }
         return 0;
+    }
+
+    /** Schema to grammar: the median of 9 compiles after 3 unreported ones (the JIT warms up). */
+    private static String schemaCompileTimes(String file) {
+        String text;
+        try {
+            text = Files.readString(Path.of(file), StandardCharsets.UTF_8);
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        double[] t = new double[12];
+        for (int i = 0; i < t.length; i++) {
+            long a = System.nanoTime();
+            dev.espalier.schema.JsonSchemas.compile(text, dev.espalier.schema.SchemaOptions.defaults());
+            t[i] = (System.nanoTime() - a) / 1e6;
+        }
+        double[] warm = Arrays.copyOfRange(t, 3, t.length);
+        return String.format("schema %s: compiled to a grammar in %.2f ms (median of %d; first %.1f ms)",
+                Path.of(file).getFileName(), percentile(warm, 50), warm.length, t[0]);
     }
 
     private String grammarRow(String file, dev.espalier.grammar.Grammar g, Vocabulary v, boolean warmUp) {
@@ -304,7 +337,7 @@ final class BenchCommand implements Callable<Integer> {
         }
         double med = percentile(t, 50);
         double naiveMed = percentile(naive, 50);
-        String name = Path.of(file).getFileName().toString();
+        String name = file;
         return String.format("%-22s %-26s %10.2f %9.1f %9.1f %9.1f %9d %9d %12.0f %9.0f", name, shorten(v.name()),
                 firstMs, med, percentile(t, 99), max(t), t.length, c.cacheBytes() / 1024, naiveMed, naiveMed / med);
     }

@@ -21,6 +21,7 @@ import java.io.PrintWriter;
             ParseCommand.class,
             ExamplesCommand.class,
             FmtCommand.class,
+            SchemaCommand.class,
             CommandLine.HelpCommand.class,
         })
 public final class Main implements Runnable {
