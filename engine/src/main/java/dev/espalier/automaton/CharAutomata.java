@@ -37,7 +37,9 @@ import java.util.function.Function;
  * built, so an exponential blow-up such as {@code (a|b)*a(a|b){25}} fails fast in bounded memory.
  * Counted repetition {@code {m,n}} is built as one chain of copies when that chain fits the
  * nondeterministic limit, and otherwise by repeated squaring (a logarithmic number of bounded
- * steps); the whole compiler works with an explicit stack, never recursion.
+ * steps); the whole compiler works with an explicit stack, never recursion. A rule is compiled once
+ * and copied at each reference; in {@link #compileUnminimized} a rule referenced more than once is
+ * minimised before it is copied, so rules that share rules grow linearly, not exponentially.
  */
 public final class CharAutomata {
 
@@ -53,6 +55,8 @@ public final class CharAutomata {
     private final int nfaLimit;
     private final long subsetBudget;
     private final Map<String, Automaton> finished = new HashMap<>();
+    /** How many references to each rule (by key) the compiled expression reaches, counted once per rule body. */
+    private Map<String, Integer> referenceCounts = Map.of();
     private final Set<String> active = new HashSet<>();
 
     private final boolean minimizing;
@@ -116,6 +120,9 @@ public final class CharAutomata {
     }
 
     private Automaton build(Expr root) {
+        if (!minimizing) {
+            referenceCounts = countReferences(root);
+        }
         Deque<Object> work = new ArrayDeque<>();
         List<Automaton> values = new ArrayList<>();
         work.push(root);
@@ -127,7 +134,15 @@ public final class CharAutomata {
                 values.add(combine(j.expr(), args));
             } else if (task instanceof Leave l) {
                 active.remove(l.key());
-                finished.put(l.key(), values.get(values.size() - 1));
+                Automaton done = values.get(values.size() - 1);
+                if (!minimizing && referenceCounts.getOrDefault(l.key(), 0) > 1) {
+                    // A rule used in several places is copied into each: minimal copies keep rules
+                    // that share rules (an acyclic automaton written as rules, say) from growing
+                    // exponentially.
+                    done = settleFully(done);
+                    values.set(values.size() - 1, done);
+                }
+                finished.put(l.key(), done);
             } else if (task instanceof Expr.Chars c) {
                 values.add(settle(codePoints(c.set())));
             } else if (task instanceof Expr.Text t) {
@@ -283,12 +298,46 @@ public final class CharAutomata {
         }
     }
 
+    /**
+     * References per rule key reachable from {@code root}, each rule body visited once; names that
+     * do not resolve are skipped (the build reports them).
+     */
+    private Map<String, Integer> countReferences(Expr root) {
+        Map<String, Integer> counts = new HashMap<>();
+        Deque<Expr> work = new ArrayDeque<>();
+        work.push(root);
+        while (!work.isEmpty()) {
+            Expr e = work.pop();
+            if (e instanceof Expr.Seq s) {
+                s.items().forEach(work::push);
+            } else if (e instanceof Expr.Choice c) {
+                c.options().forEach(work::push);
+            } else if (e instanceof Expr.Repeat r) {
+                work.push(r.body());
+            } else if (e instanceof Expr.Ref r) {
+                String key = r.name().toLowerCase(Locale.ROOT);
+                if (counts.merge(key, 1, Integer::sum) == 1 && rules != null) {
+                    Expr body = rules.apply(r.name());
+                    if (body != null) {
+                        work.push(body);
+                    }
+                }
+            }
+        }
+        return counts;
+    }
+
     /** Determinise (bounded) and minimise a freshly built automaton. */
     private Automaton settle(Automaton a) {
-        int n = a.getNumberOfStates();
-        if (!minimizing && n <= limit) {
+        if (!minimizing && a.getNumberOfStates() <= limit) {
             return a; // the caller determinises and minimises the whole automaton once
         }
+        return settleFully(a);
+    }
+
+    /** Determinise (bounded) and minimise, whatever the mode. */
+    private Automaton settleFully(Automaton a) {
+        int n = a.getNumberOfStates();
         if (a.isDeterministic()) {
             if (n > limit) {
                 throw new AutomatonTooLargeException(limit);

@@ -93,18 +93,28 @@ final class Facet {
     BigInteger multipleOf;
     /** Most fraction digits ({@code multipleOf} a power of ten below one); -1 for no limit. */
     int fractionDigits = -1;
+    /** Other non-integer {@code multipleOf} steps. */
+    List<BigDecimal> steps = new ArrayList<>();
 
     List<Sub> prefix = new ArrayList<>();
     Sub items = Sub.TRUE;
     int minItems;
     int maxItems = -1;
     boolean unique;
+    /** The {@code contains} location, or null. */
+    String contains;
+    int minContains = 1;
+    int maxContains = -1;
 
     Map<String, Sub> properties = new LinkedHashMap<>();
     Set<String> required = new LinkedHashSet<>();
     Map<String, Sub> patternProperties = new LinkedHashMap<>();
     Sub additional = Sub.TRUE;
     Sub propertyNames = Sub.TRUE;
+    /** Whether some merged part has {@code additionalProperties}, so every member is evaluated. */
+    boolean additionalSet;
+    /** Whether some merged part has an {@code items} schema, so every item is evaluated. */
+    boolean itemsSet;
     int minProperties;
     int maxProperties = -1;
     Map<String, Set<String>> dependentRequired = new LinkedHashMap<>();
@@ -137,16 +147,22 @@ final class Facet {
         f.upper = upper;
         f.multipleOf = multipleOf;
         f.fractionDigits = fractionDigits;
+        f.steps = new ArrayList<>(steps);
         f.prefix = new ArrayList<>(prefix);
         f.items = items;
         f.minItems = minItems;
         f.maxItems = maxItems;
         f.unique = unique;
+        f.contains = contains;
+        f.minContains = minContains;
+        f.maxContains = maxContains;
         f.properties = new LinkedHashMap<>(properties);
         f.required = new LinkedHashSet<>(required);
         f.patternProperties = new LinkedHashMap<>(patternProperties);
         f.additional = additional;
         f.propertyNames = propertyNames;
+        f.additionalSet = additionalSet;
+        f.itemsSet = itemsSet;
         f.minProperties = minProperties;
         f.maxProperties = maxProperties;
         f.dependentRequired = new LinkedHashMap<>();
@@ -165,11 +181,11 @@ final class Facet {
     }
 
     boolean noNumberRules() {
-        return lower == null && upper == null && multipleOf == null && fractionDigits < 0;
+        return lower == null && upper == null && multipleOf == null && fractionDigits < 0 && steps.isEmpty();
     }
 
     boolean noArrayRules() {
-        return prefix.isEmpty() && items.isTrue() && minItems == 0 && maxItems < 0 && !unique;
+        return prefix.isEmpty() && items.isTrue() && minItems == 0 && maxItems < 0 && !unique && contains == null;
     }
 
     boolean noObjectRules() {

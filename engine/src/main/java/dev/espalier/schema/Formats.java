@@ -41,13 +41,18 @@ import java.util.concurrent.ConcurrentHashMap;
  * <ul>
  *   <li>date-time, time: a leap second ({@code :60}) is accepted only as 23:59:60 written with a
  *       zero offset ({@code Z}, {@code +00:00}, {@code -00:00}); other offsets that put it at 23:59
- *       UTC are refused, and whether a leap second was actually inserted that day is not known.</li>
+ *       UTC are refused (pairing each local minute with its offset takes a minimal automaton of
+ *       about 11,000 states, against 33 for the whole time format), and whether a leap second was
+ *       actually inserted that day is not known.</li>
  *   <li>email: quoted local parts and general address literals are refused; the length limits of
  *       RFC 5321 section 4.5.3.1 are not enforced.</li>
  *   <li>hostname: the total length limit of 253 characters is not enforced (as an automaton it
  *       needs about 30,000 states); A-labels ({@code xn--}) are not decoded, so Punycode and IDNA
  *       validity are not checked.</li>
  * </ul>
+ * Stricter than the letter of the ABNF: duration designators ({@code P}, {@code Y}, {@code T}, ...) are
+ * upper case only, as ISO 8601 writes them (RFC 5234 would read the quoted strings of RFC 3339
+ * Appendix A case-insensitively); e-mail address literals take IPv4 octets without leading zeros.
  */
 public final class Formats {
 

@@ -46,15 +46,45 @@ import java.util.Objects;
  *       {@code .*p.*} over any code point, {@code ^p} as {@code p.*}, {@code p$} as {@code .*p}.</li>
  * </ul>
  *
+ * <h2>Keywords</h2>
+ * {@code type} (also as an array), {@code enum}, {@code const}, {@code properties}, {@code required},
+ * {@code additionalProperties}, {@code patternProperties} (up to four overlapping patterns; any
+ * number of disjoint ones), {@code propertyNames}, {@code minProperties}/{@code maxProperties},
+ * {@code dependentRequired}, {@code dependentSchemas} (and draft-07 {@code dependencies}),
+ * {@code items}, {@code prefixItems} (and draft-07 array {@code items} with {@code additionalItems}),
+ * {@code minItems}/{@code maxItems}, {@code contains} with {@code minContains}/{@code maxContains},
+ * {@code uniqueItems} for items with at most eight possible values, {@code minLength}/{@code maxLength}
+ * (code points), {@code pattern}, {@code format} (the formats of {@link Formats#names()} are enforced,
+ * which is stricter than draft 2020-12's default of annotation only; what a format's grammar does
+ * not check is a warning; other formats are annotations), {@code minimum}/{@code maximum}/{@code exclusiveMinimum}/{@code exclusiveMaximum},
+ * {@code multipleOf} (integers, and decimal steps whose digits are at most
+ * {@link NumberLanguages#MAX_MODULUS}), {@code allOf}, {@code anyOf}, {@code oneOf}, {@code not},
+ * {@code if}/{@code then}/{@code else}, {@code $ref} to {@code $defs}/{@code definitions}, JSON
+ * pointers (with {@code ~0}, {@code ~1} and percent escapes), {@code $id}-identified subschemas and
+ * {@code $anchor}s, recursive schemas, {@code $dynamicRef} where only one {@code $dynamicAnchor} can
+ * match, boolean schemas, and {@code unevaluatedProperties}/{@code unevaluatedItems} over merged
+ * {@code allOf}/{@code $ref}/disjoint {@code anyOf}/{@code oneOf}. Annotations ({@code title},
+ * {@code description}, {@code default}, {@code examples}, {@code $comment}, ...) are ignored.
+ *
+ * <p>{@code oneOf} is exact when its branches are disjoint (different types, values, numeric ranges,
+ * string languages, lengths, counts, or a required property with disjoint schemas or forbidden by
+ * the other branch), and otherwise when the other branches have exact complements: branch i and not
+ * branch j. {@code not} and {@code if} need an exact complement: of types, of scalar values, of
+ * numeric bounds, of string constraints, of {@code minItems}/{@code maxItems}, and of objects
+ * constrained by {@code properties}, {@code required} and property counts.
+ *
  * <h2>Strictness</h2>
  * A keyword that cannot be enforced exactly is a {@link SchemaException} naming the keyword and the
  * JSON pointer of its schema, unless the options are lenient: then it is relaxed (enforced more
- * weakly, or not at all) and listed in {@link SchemaResult#relaxations()}. Refused: {@code contains},
- * {@code uniqueItems} (unless at most one item is allowed), {@code dependentSchemas},
- * {@code unevaluatedProperties}/{@code unevaluatedItems} (except {@code true}),
- * {@code $dynamicRef}, remote {@code $ref}, {@code multipleOf} that is neither an integer nor a
- * power of ten below one, {@code oneOf} whose branches could not be shown disjoint, {@code not} and
- * {@code if} whose schema has no exact complement, and patterns outside the supported syntax.
+ * weakly, or not at all) and listed in {@link SchemaResult#relaxations()}. Refused: {@code uniqueItems}
+ * over items with more than eight possible values, {@code contains} next to {@code prefixItems} or
+ * with a contained schema without exact complement, remote {@code $ref}, dynamic references with
+ * several candidate anchors, {@code multipleOf} with more digits than the limit, {@code oneOf} whose
+ * overlapping branches lack complements, {@code not} and {@code if} without exact complement,
+ * {@code unevaluated*} next to {@code not}, {@code if}, {@code contains} or overlapping branches,
+ * {@code minProperties} that could only be reached with two or more pattern or additional members
+ * (their names could repeat), objects with more named properties than
+ * {@link SchemaOptions#anyOrderLimit()} in any order, and patterns outside the supported syntax.
  * Unknown keywords and unknown formats are warnings ({@link SchemaResult#warnings()}).
  */
 public final class JsonSchemas {

@@ -64,7 +64,8 @@ public final class NumberLanguages {
      *                                  class is crossed (see the class documentation)
      */
     public static RegularFragment integers(String prefix, Bound lower, Bound upper, BigInteger multipleOf) {
-        return RegularRules.of(prefix, integerAutomaton(lower, upper, multipleOf));
+        // every automaton built here is minimal (minimised by brics, or minimal by construction)
+        return RegularRules.ofMinimal(prefix, integerAutomaton(lower, upper, multipleOf));
     }
 
     /**
@@ -80,6 +81,9 @@ public final class NumberLanguages {
             if (multipleOf.compareTo(BigInteger.valueOf(MAX_MODULUS)) > 0) {
                 throw new IllegalArgumentException("multipleOf " + multipleOf + " is above the limit of "
                         + MAX_MODULUS + " for exact integer divisibility");
+            }
+            if (lower == null && upper == null) {
+                return signedMultiples(multipleOf.intValueExact());
             }
             divisible = remainders(multipleOf.intValueExact());
         }
@@ -99,7 +103,7 @@ public final class NumberLanguages {
         if (lower == null && upper == null) {
             return new RegularFragment(anyJsonNumberExpr(), java.util.List.of());
         }
-        return RegularRules.of(prefix, decimalAutomaton(lower, upper));
+        return RegularRules.ofMinimal(prefix, decimalAutomaton(lower, upper));
     }
 
     /**
@@ -369,8 +373,41 @@ public final class NumberLanguages {
         return a;
     }
 
-    /** Digit strings whose value is divisible by m: states are remainders, reading d moves r to (10r+d) mod m. */
-    static Automaton remainders(int m) {
+    /**
+     * All JSON integers divisible by m, built directly: after the sign and first digit, both signs
+     * share the remainder states.
+     */
+    static Automaton signedMultiples(int m) {
+        State start = new State();
+        State minus = new State();
+        State zero = new State();
+        zero.setAccept(true);
+        State[] r = remainderStates(m);
+        start.addTransition(new Transition('0', zero));
+        start.addTransition(new Transition('-', minus));
+        for (int d = 1; d <= 9; d++) {
+            start.addTransition(new Transition((char) ('0' + d), r[d % m]));
+            minus.addTransition(new Transition((char) ('0' + d), r[d % m]));
+        }
+        Automaton a = new Automaton();
+        a.setInitialState(start);
+        a.setDeterministic(true);
+        if (!coprimeWithTen(m)) {
+            a.minimize();
+        }
+        return a;
+    }
+
+    /**
+     * With m coprime with 10 the remainder automaton is already minimal: the digits of n < m lead to
+     * remainder n, and remainders r != r' are told apart by a suffix w of k digits with
+     * w = -r * 10^k (mod m), 10^k > m, since 10 is invertible modulo m.
+     */
+    private static boolean coprimeWithTen(int m) {
+        return m % 2 != 0 && m % 5 != 0;
+    }
+
+    private static State[] remainderStates(int m) {
         State[] r = new State[m];
         for (int i = 0; i < m; i++) {
             r[i] = new State();
@@ -381,10 +418,15 @@ public final class NumberLanguages {
                 r[i].addTransition(new Transition((char) ('0' + d), r[(int) ((10L * i + d) % m)]));
             }
         }
+        return r;
+    }
+
+    /** Digit strings whose value is divisible by m: states are remainders, reading d moves r to (10r+d) mod m. */
+    static Automaton remainders(int m) {
         Automaton a = new Automaton();
-        a.setInitialState(r[0]);
+        a.setInitialState(remainderStates(m)[0]);
         a.setDeterministic(true);
-        a.minimize();
+        a.minimize(); // also when already minimal: the products below run faster on brics's minimised form
         return a;
     }
 

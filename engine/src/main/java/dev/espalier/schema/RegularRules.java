@@ -23,11 +23,13 @@ import java.util.TreeMap;
  * encoding and are dropped) and minimised; a high-surrogate step followed by a low-surrogate step
  * becomes one step over a range of supplementary code points. The minimal automaton over code points
  * is then written as a right-linear system (one equation per state) and states are eliminated one by
- * one (Brzozowski–McCluskey state elimination; a self-loop becomes a repetition), cheapest first,
- * while the expressions stay within {@value #SIZE_BUDGET} nodes. When every state can be eliminated
- * the fragment is one expression with no helper rules (and no recursion, so the grammar's lexical
- * layer turns it into a byte automaton); otherwise each remaining state becomes a rule
- * {@code prefix-sN} whose body refers to other state rules only in tail position (right-linear).
+ * one (Brzozowski–McCluskey state elimination; a self-loop becomes a repetition), cheapest first.
+ * When every state can be eliminated with the expressions within {@value #SIZE_BUDGET} nodes, the
+ * fragment is one expression with no helper rules (and no recursion, so the grammar's lexical layer
+ * turns it into a byte automaton). Otherwise only the eliminations that do not grow the expressions
+ * are made, and each remaining state becomes a rule {@code prefix-sN} whose body refers to other
+ * state rules only in tail position (right-linear); a cycle among them is recursion, which the
+ * grammar's Earley layer handles.
  */
 public final class RegularRules {
 
@@ -60,7 +62,16 @@ public final class RegularRules {
      * eliminations; negative, none (one rule per state).
      */
     static RegularFragment of(String prefix, Automaton automaton, int budget) {
-        CodePointDfa dfa = CodePointDfa.of(automaton);
+        return of(prefix, automaton, budget, false);
+    }
+
+    /** As {@link #of(String, Automaton)}, skipping minimisation for an automaton known to be minimal. */
+    static RegularFragment ofMinimal(String prefix, Automaton minimal) {
+        return of(prefix, minimal, SIZE_BUDGET, true);
+    }
+
+    private static RegularFragment of(String prefix, Automaton automaton, int budget, boolean minimal) {
+        CodePointDfa dfa = CodePointDfa.of(automaton, minimal);
         if (dfa.size() == 0) {
             return new RegularFragment(Expr.choice(), List.of());
         }
@@ -91,9 +102,14 @@ public final class RegularRules {
             return accept.length;
         }
 
-        static CodePointDfa of(Automaton input) {
-            Automaton a = input.intersection(wellFormedUtf16());
-            a.minimize();
+        static CodePointDfa of(Automaton input, boolean minimal) {
+            Automaton a;
+            if (minimal && input.isDeterministic() && !touchesSurrogates(input)) {
+                a = input; // only read
+            } else {
+                a = touchesSurrogates(input) ? input.intersection(wellFormedUtf16()) : input.clone();
+                a.minimize();
+            }
             State init = a.getInitialState();
             // number the states reached by code points (intermediate after-high-surrogate states are skipped)
             Map<State, Integer> id = new IdentityHashMap<>();
@@ -208,6 +224,17 @@ public final class RegularRules {
                 l.add(lo);
                 l.add(hi);
             }
+        }
+
+        private static boolean touchesSurrogates(Automaton a) {
+            for (State s : a.getStates()) {
+                for (Transition t : s.getTransitions()) {
+                    if (t.getMax() >= 0xD800 && t.getMin() <= 0xDFFF) {
+                        return true;
+                    }
+                }
+            }
+            return false;
         }
 
         /** Strings of Java chars that are well-formed UTF-16 (every surrogate in a proper pair). */
@@ -516,10 +543,5 @@ public final class RegularRules {
 
     private static Sized star(Sized body) {
         return new Sized(Expr.repeat(body.expr(), 0, Expr.UNBOUNDED), body.size() + 1);
-    }
-
-    /** Used by tests: the state count of the minimal code-point automaton. */
-    static int minimalStates(Automaton a) {
-        return CodePointDfa.of(a).size();
     }
 }

@@ -57,6 +57,12 @@ final class SchemaCompiler {
     static final int MAX_OVERLAPPING_PATTERNS = 4;
     /** Most properties taking part in {@code dependentRequired} of one object. */
     static final int MAX_DEPENDENT = 12;
+    /** Most values of items whose distinctness ({@code uniqueItems}) is enforced. */
+    static final int MAX_UNIQUE_VALUES = 8;
+    /** Most states of one object's or array's counting machine. */
+    static final int MAX_STATES = 100_000;
+    /** Most named properties whose orders are enumerated, whatever the option says. */
+    static final int MAX_ANY_ORDER = 12;
     /** Deepest chain of references and in-place combinators followed at once. */
     static final int MAX_REF_DEPTH = 500;
     /** State limit of intermediate automata. */
@@ -211,8 +217,22 @@ final class SchemaCompiler {
 
     // ================================================================== normal form
 
+    private final Map<String, List<Facet>> subMemo = new HashMap<>();
+
     /** The facets of a conjunction of locations. */
     List<Facet> dnf(Facet.Sub sub) {
+        if (sub.parts().size() == 1 && !sub.parts().get(0).startsWith("!") && !sub.isFalse()) {
+            return dnf(sub.parts().get(0));
+        }
+        List<Facet> done = subMemo.get(sub.key());
+        if (done == null) {
+            done = dnfOfParts(sub);
+            subMemo.put(sub.key(), done);
+        }
+        return done;
+    }
+
+    private List<Facet> dnfOfParts(Facet.Sub sub) {
         List<Facet> acc = List.of(Facet.any(sub.parts().isEmpty() ? "" : bare(sub.parts().get(0))));
         for (String part : sub.parts()) {
             if (part.equals(Facet.Sub.FALSE)) {
@@ -297,6 +317,29 @@ final class SchemaCompiler {
                 acc = conjoin(acc, dnf(target), ptr);
             }
         }
+        // dependent schemas: an object without the property, or with it and satisfying the schema
+        for (String k : List.of("dependentSchemas", "dependencies")) {
+            JsonNode deps = n.get(k);
+            if (deps == null || !deps.isObject()) {
+                continue;
+            }
+            for (Iterator<Map.Entry<String, JsonNode>> it = deps.fields(); it.hasNext(); ) {
+                Map.Entry<String, JsonNode> d = it.next();
+                if (d.getValue().isArray()) {
+                    continue; // dependentRequired form
+                }
+                String at = ptr + "/" + SchemaIndex.escape(k) + "/" + SchemaIndex.escape(d.getKey());
+                List<Facet> union = new ArrayList<>();
+                union.add(Facet.ofTypes(ptr, Facet.ALL & ~Facet.OBJ));
+                Facet absent = Facet.ofTypes(ptr, Facet.OBJ);
+                absent.properties.put(d.getKey(), Facet.Sub.NONE);
+                union.add(absent);
+                Facet present = Facet.ofTypes(ptr, Facet.OBJ);
+                present.required.add(d.getKey());
+                union.addAll(conjoin(List.of(present), dnf(at), ptr));
+                acc = conjoin(acc, union, ptr);
+            }
+        }
         if (n.has("$recursiveRef")) {
             refuse(ptr, "$recursiveRef", "dynamic references are not supported");
         }
@@ -375,7 +418,124 @@ final class SchemaCompiler {
             }
             acc = conjoin(acc, union, ptr);
         }
+        acc = unevaluated(ptr, n, acc);
         return acc;
+    }
+
+    /**
+     * {@code unevaluatedProperties} and {@code unevaluatedItems}, once the in-place applicators are
+     * merged into facets: a facet's evaluated members are the names its merged parts declare or
+     * match by pattern (all of them when a part has {@code additionalProperties}), so the keyword's
+     * schema joins the facet's schema for other members; likewise for items beyond the prefix. This
+     * is exact when no annotations are lost or gained by a branch the facet does not stand for:
+     * refused under {@code not}, {@code if}, {@code contains} and {@code anyOf}/{@code oneOf} whose
+     * branches are not disjoint.
+     */
+    private List<Facet> unevaluated(String ptr, JsonNode n, List<Facet> acc) {
+        for (String k : List.of("unevaluatedProperties", "unevaluatedItems")) {
+            JsonNode u = n.get(k);
+            if (u == null) {
+                continue;
+            }
+            boolean props = k.equals("unevaluatedProperties");
+            if (u.isBoolean() && u.booleanValue()) {
+                // evaluates every member (or item) without constraining it
+                List<Facet> out = new ArrayList<>();
+                for (Facet f : acc) {
+                    Facet g = f.copy();
+                    if (props) {
+                        g.additionalSet = true;
+                    } else {
+                        g.itemsSet = true;
+                    }
+                    out.add(g);
+                }
+                acc = out;
+                continue;
+            }
+            String obstacle = unevaluatedObstacle(ptr, props);
+            if (obstacle != null) {
+                refuse(ptr, k, k + " cannot be enforced exactly next to " + obstacle
+                        + (options.lenient() ? " (not enforced)" : ""));
+                continue;
+            }
+            Facet.Sub schema = Facet.Sub.of(ptr + "/" + k);
+            List<Facet> out = new ArrayList<>();
+            for (Facet f : acc) {
+                Facet g = f.copy();
+                if (props && !g.additionalSet) {
+                    g.additional = g.additional.and(schema);
+                    g.additionalSet = true;
+                } else if (!props && !g.itemsSet) {
+                    g.items = g.items.and(schema);
+                    g.itemsSet = true;
+                }
+                out.add(g);
+            }
+            acc = out;
+        }
+        return acc;
+    }
+
+    /** What in the in-place applicators under a location keeps unevaluated* from being exact; null if nothing. */
+    private String unevaluatedObstacle(String ptr, boolean props) {
+        Deque<String> work = new ArrayDeque<>();
+        Set<String> seen = new HashSet<>();
+        work.push(ptr);
+        while (!work.isEmpty()) {
+            String at = work.pop();
+            if (!seen.add(at)) {
+                continue;
+            }
+            JsonNode n = index.node(at);
+            if (n == null || !n.isObject()) {
+                continue;
+            }
+            if (n.has("not")) {
+                return "not";
+            }
+            if (n.has("if")) {
+                return "if";
+            }
+            if (!props && n.has("contains")) {
+                return "contains";
+            }
+            for (String k : List.of("anyOf", "oneOf", "allOf")) {
+                JsonNode arr = n.get(k);
+                if (arr == null || !arr.isArray()) {
+                    continue;
+                }
+                for (int i = 0; i < arr.size(); i++) {
+                    work.push(at + "/" + k + "/" + i);
+                    for (int j = 0; j < i && !k.equals("allOf"); j++) {
+                        if (!disjoint(dnf(at + "/" + k + "/" + i), dnf(at + "/" + k + "/" + j), 0)) {
+                            return k + " with branches that may overlap";
+                        }
+                    }
+                }
+            }
+            for (String k : List.of("$ref", "$dynamicRef")) {
+                JsonNode r = n.get(k);
+                if (r != null && r.isTextual()) {
+                    try {
+                        work.push(index.resolve(at, r.textValue()));
+                    } catch (SchemaException e) {
+                        return "an unresolved reference";
+                    }
+                }
+            }
+            for (String k : List.of("dependentSchemas", "dependencies")) {
+                JsonNode d = n.get(k);
+                if (d != null && d.isObject()) {
+                    d.fieldNames().forEachRemaining(name -> {
+                        if (d.get(name).isObject() || d.get(name).isBoolean()) {
+                            work.push(at + "/" + SchemaIndex.escape(k) + "/" + SchemaIndex.escape(name));
+                        }
+                    });
+                }
+            }
+        }
+        return null;
     }
 
     private static JsonNode arrayOf(String ptr, String keyword, JsonNode n) {
@@ -483,6 +643,9 @@ final class SchemaCompiler {
                     }
                     if (knownFormat(v.textValue())) {
                         f.formats.add(v.textValue());
+                        // format is an annotation in draft 2020-12; what the grammar checks is said plainly
+                        Formats.gaps(v.textValue()).ifPresent(g -> warnings.add(new SchemaNote(ptr, k,
+                                "format " + v.textValue() + " is enforced by its grammar, which does not check: " + g)));
                     } else {
                         warnings.add(new SchemaNote(ptr, k, "format " + v.textValue()
                                 + " is not enforced (an annotation only)"));
@@ -504,9 +667,12 @@ final class SchemaCompiler {
                         f.types &= ~Facet.FRAC;
                     } else if (s.unscaledValue().equals(BigInteger.ONE)) {
                         f.fractionDigits = Facet.minMax(f.fractionDigits, s.scale());
+                    } else if (s.unscaledValue().compareTo(BigInteger.valueOf(NumberLanguages.MAX_MODULUS)) <= 0
+                            && s.scale() <= 100) {
+                        f.steps.add(s);
                     } else {
-                        refuse(ptr, k, "multipleOf " + s.toPlainString() + " is neither an integer nor a power of "
-                                + "ten; it cannot be enforced exactly");
+                        refuse(ptr, k, "multipleOf " + s.toPlainString() + " has more than "
+                                + NumberLanguages.MAX_MODULUS + " as its digits; it cannot be enforced exactly");
                     }
                 }
                 case "items" -> {
@@ -516,9 +682,11 @@ final class SchemaCompiler {
                         }
                         if (n.has("additionalItems")) {
                             f.items = Facet.Sub.of(ptr + "/additionalItems");
+                            f.itemsSet = true;
                         }
                     } else {
                         f.items = Facet.Sub.of(at);
+                        f.itemsSet = true;
                     }
                 }
                 case "prefixItems" -> {
@@ -537,7 +705,16 @@ final class SchemaCompiler {
                     }
                     f.unique = v.booleanValue();
                 }
-                case "contains" -> refuse(ptr, k, "contains cannot be enforced");
+                case "contains" -> {
+                    f.contains = at;
+                    JsonNode lo = n.get("minContains");
+                    JsonNode hi = n.get("maxContains");
+                    f.minContains = lo == null ? 1 : nonNegative(ptr, "minContains", lo);
+                    f.maxContains = hi == null ? -1 : nonNegative(ptr, "maxContains", hi);
+                    if (f.minContains == 0 && f.maxContains < 0) {
+                        f.contains = null; // always satisfied
+                    }
+                }
                 case "properties" -> {
                     if (!v.isObject()) {
                         throw malformed(ptr, k, "must be an object of schemas");
@@ -556,7 +733,10 @@ final class SchemaCompiler {
                         f.required.add(r.textValue());
                     }
                 }
-                case "additionalProperties" -> f.additional = Facet.Sub.of(at);
+                case "additionalProperties" -> {
+                    f.additional = Facet.Sub.of(at);
+                    f.additionalSet = true;
+                }
                 case "patternProperties" -> {
                     if (!v.isObject()) {
                         throw malformed(ptr, k, "must be an object of schemas");
@@ -586,30 +766,19 @@ final class SchemaCompiler {
                                 targets.add(t.textValue());
                             }
                         } else if (k.equals("dependencies")) {
-                            refuse(ptr, k, "schema dependencies cannot be enforced");
+                            // schema dependencies: applied in dnfOf, as dependentSchemas
                         } else {
                             throw malformed(ptr, k, "must map names to arrays of names");
                         }
                     }
                 }
-                case "dependentSchemas" -> refuse(ptr, k, "dependentSchemas cannot be enforced");
+                case "dependentSchemas" -> {
+                    if (!v.isObject()) {
+                        throw malformed(ptr, k, "must be an object of schemas");
+                    }
+                }
                 case "unevaluatedProperties", "unevaluatedItems" -> {
-                    if (v.isBoolean() && v.booleanValue()) {
-                        break;
-                    }
-                    boolean applicators = false;
-                    for (String a : List.of("allOf", "anyOf", "oneOf", "not", "if", "$ref", "$dynamicRef",
-                            "dependentSchemas", "contains")) {
-                        applicators |= n.has(a);
-                    }
-                    if (applicators) {
-                        refuse(ptr, k, k + " next to in-place applicators cannot be enforced");
-                    } else if (k.equals("unevaluatedProperties") && !n.has("additionalProperties")) {
-                        // with no applicator, the unevaluated properties are exactly the additional ones
-                        f.additional = Facet.Sub.of(at);
-                    } else if (k.equals("unevaluatedItems") && !n.has("items") && !n.has("additionalItems")) {
-                        f.items = Facet.Sub.of(at);
-                    }
+                    // applied in dnfOf, once the in-place applicators are merged
                 }
                 default -> {
                     if (!HANDLED.contains(k) && !ANNOTATIONS.contains(k)) {
@@ -618,12 +787,8 @@ final class SchemaCompiler {
                 }
             }
         }
-        if (f.unique && f.maxItems > 1 || f.unique && f.maxItems < 0) {
-            refuse(ptr, "uniqueItems", "distinct items cannot be enforced by a grammar"
-                    + (options.lenient() ? " (not enforced)" : ""));
-            f.unique = false;
-        } else {
-            f.unique = false;
+        if (f.unique && f.maxItems >= 0 && f.maxItems <= 1) {
+            f.unique = false; // at most one item: always distinct
         }
         return normalise(f);
     }
@@ -722,6 +887,11 @@ final class SchemaCompiler {
         m.upper = Facet.tighterUpper(a.upper, b.upper);
         m.multipleOf = a.multipleOf == null ? b.multipleOf : b.multipleOf == null ? a.multipleOf : lcm(a.multipleOf, b.multipleOf);
         m.fractionDigits = Facet.minMax(a.fractionDigits, b.fractionDigits);
+        for (BigDecimal st : b.steps) {
+            if (!m.steps.contains(st)) {
+                m.steps.add(st);
+            }
+        }
         int n = Math.max(a.prefix.size(), b.prefix.size());
         m.prefix = new ArrayList<>();
         for (int i = 0; i < n; i++) {
@@ -730,6 +900,17 @@ final class SchemaCompiler {
         m.items = a.items.and(b.items);
         m.minItems = Math.max(a.minItems, b.minItems);
         m.maxItems = Facet.minMax(a.maxItems, b.maxItems);
+        m.unique = a.unique || b.unique;
+        if (b.contains != null) {
+            if (a.contains != null && !(a.contains.equals(b.contains) && a.minContains == b.minContains
+                    && a.maxContains == b.maxContains)) {
+                throw new SchemaException(b.pointer, "contains", "cannot be merged with the contains of "
+                        + (a.pointer.isEmpty() ? "#" : "#" + a.pointer));
+            }
+            m.contains = b.contains;
+            m.minContains = b.minContains;
+            m.maxContains = b.maxContains;
+        }
         // objects
         if (!a.patternProperties.isEmpty() && !b.patternProperties.isEmpty()
                 && !a.patternProperties.keySet().equals(b.patternProperties.keySet())) {
@@ -752,6 +933,8 @@ final class SchemaCompiler {
             b.patternProperties.forEach((p, s) -> m.patternProperties.put(p, s.and(a.additional)));
         }
         m.additional = a.additional.and(b.additional);
+        m.additionalSet = a.additionalSet || b.additionalSet;
+        m.itemsSet = a.itemsSet || b.itemsSet;
         m.propertyNames = a.propertyNames.and(b.propertyNames);
         m.minProperties = Math.max(a.minProperties, b.minProperties);
         m.maxProperties = Facet.minMax(a.maxProperties, b.maxProperties);
@@ -855,7 +1038,7 @@ final class SchemaCompiler {
         }
         int nums = f.types & (Facet.INT | Facet.FRAC);
         if (nums != 0 && !f.noNumberRules()) {
-            if (f.multipleOf != null || f.fractionDigits >= 0) {
+            if (f.multipleOf != null || f.fractionDigits >= 0 || !f.steps.isEmpty()) {
                 throw new Unexpressible("multipleOf");
             }
             if (f.lower != null) {
@@ -881,6 +1064,9 @@ final class SchemaCompiler {
             out.add(x);
         }
         if ((f.types & Facet.ARR) != 0 && !f.noArrayRules()) {
+            if (f.unique || f.contains != null) {
+                throw new Unexpressible(f.unique ? "uniqueItems" : "contains");
+            }
             if (!f.prefix.isEmpty() || !f.items.isTrue()) {
                 if (!f.prefix.isEmpty() || f.items.parts().size() != 1) {
                     throw new Unexpressible("array items");
@@ -916,7 +1102,11 @@ final class SchemaCompiler {
                 }
                 Facet x = Facet.ofTypes(p, Facet.OBJ);
                 x.required.add(e.getKey());
-                x.properties.put(e.getKey(), negate(s));
+                Facet.Sub negated = negate(s);
+                if (!negated.isTrue() && negated.parts().get(0).startsWith("!")) {
+                    complementOf(dnf(Facet.Sub.of(negated.parts().get(0).substring(1)))); // expressible?
+                }
+                x.properties.put(e.getKey(), negated);
                 out.add(x);
             }
             if (f.minProperties > 0) {
@@ -1218,6 +1408,11 @@ final class SchemaCompiler {
                 if (f.multipleOf != null && d.remainder(new BigDecimal(f.multipleOf)).signum() != 0) {
                     return false;
                 }
+                for (BigDecimal st : f.steps) {
+                    if (d.remainder(st).signum() != 0) {
+                        return false;
+                    }
+                }
                 return f.fractionDigits < 0 || d.stripTrailingZeros().scale() <= f.fractionDigits;
             }
             case Facet.ARR -> {
@@ -1228,6 +1423,18 @@ final class SchemaCompiler {
                     if (!matches(v.get(i), f.itemAt(i), depth + 1)) {
                         return false;
                     }
+                    for (int j = 0; f.unique && j < i; j++) {
+                        if (JsonText.same(v.get(i), v.get(j))) {
+                            return false;
+                        }
+                    }
+                }
+                if (f.contains != null) {
+                    int found = 0;
+                    for (JsonNode item : v) {
+                        found += matches(item, Facet.Sub.of(f.contains), depth + 1) ? 1 : 0;
+                    }
+                    return found >= f.minContains && (f.maxContains < 0 || found <= f.maxContains);
                 }
                 return true;
             }
@@ -1288,6 +1495,9 @@ final class SchemaCompiler {
 
     /** An unused rule name based on {@code base}. */
     private String fresh(String base) {
+        if (usedNames.size() >= MAX_RULES) {
+            throw new SchemaException("", "", "the grammar would need more than " + MAX_RULES + " rules");
+        }
         String name = base;
         for (int i = 2; usedNames.contains(name.toLowerCase(Locale.ROOT)); i++) {
             name = base + "-" + i;
@@ -1423,6 +1633,36 @@ final class SchemaCompiler {
         return out.size() == 1 ? out.get(0) : new Expr.Choice(out, dev.espalier.grammar.Span.NONE);
     }
 
+    /** Largest count written as one repetition (the Earley lowering's limit). */
+    static final int MAX_COUNT = 1_000;
+
+    /**
+     * {@code x} repeated {@code min..max} times, with counts above {@value #MAX_COUNT} written as
+     * nested repetitions of blocks (the same language): {@code x{m}} is {@code (x{B}){m/B} x{m%B}},
+     * and {@code x{0,N}} with {@code N = qB + r} is {@code (x{B}){0,q-1} x{0,B-1} / (x{B}){q} x{0,r}}.
+     */
+    static Expr rep(Expr x, int min, int max) {
+        if (min <= MAX_COUNT && (max == Expr.UNBOUNDED || max <= MAX_COUNT)) {
+            return Expr.repeat(x, min, max);
+        }
+        int b = MAX_COUNT;
+        Expr block = Expr.repeat(x, b, b);
+        Expr head = min <= b ? Expr.repeat(x, min, min)
+                : seq(List.of(rep(block, min / b, min / b), Expr.repeat(x, min % b, min % b)));
+        if (max == Expr.UNBOUNDED) {
+            return seq(List.of(head, Expr.repeat(x, 0, Expr.UNBOUNDED)));
+        }
+        int n = max - min;
+        if (n <= b) {
+            return seq(List.of(head, Expr.repeat(x, 0, n)));
+        }
+        int q = n / b;
+        int r = n % b;
+        Expr upTo = choice(List.of(seq(List.of(rep(block, 0, q - 1), Expr.repeat(x, 0, b - 1))),
+                seq(List.of(rep(block, q, q), Expr.repeat(x, 0, r)))));
+        return seq(List.of(head, upTo));
+    }
+
     private static Expr optional(Expr e) {
         return Expr.repeat(e, 0, 1);
     }
@@ -1448,7 +1688,7 @@ final class SchemaCompiler {
             return Expr.ref(anyValue(depth));
         }
         if ((f.types & Facet.OBJ) != 0) {
-            add(options, objectExpr(f, depth, name));
+            add(options, objectOf(f, depth, name));
         }
         if ((f.types & Facet.ARR) != 0) {
             add(options, arrayExpr(f, depth, name));
@@ -1645,7 +1885,7 @@ final class SchemaCompiler {
             if (f.minLength == 0 && f.maxLength < 0) {
                 return Expr.ref(stringRule());
             }
-            content = Expr.repeat(Expr.ref(charRule()), f.minLength, f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength);
+            content = rep(Expr.ref(charRule()), f.minLength, f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength);
         } else if (f.patterns.isEmpty() && f.formats.size() == 1 && f.notStrings.isEmpty() && f.minLength == 0
                 && f.maxLength < 0 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {
             RegularFragment frag = Formats.content(freshPrefix(name + "-" + sanitise(f.formats.get(0))), f.formats.get(0))
@@ -1670,7 +1910,22 @@ final class SchemaCompiler {
 
     // ---- numbers
 
+    private final Map<String, Optional<Expr>> numberCache = new HashMap<>();
+
     private Expr numberExpr(Facet f, String name) {
+        String signature = (f.types & (Facet.INT | Facet.FRAC)) + "|" + f.lower + "|" + f.upper + "|" + f.multipleOf
+                + "|" + f.fractionDigits + "|" + f.steps + "|" + f.excluded.stream().filter(JsonNode::isNumber)
+                .map(JsonText::number).toList();
+        Optional<Expr> known = numberCache.get(signature);
+        if (known != null) {
+            return known.orElse(null);
+        }
+        Expr e = numberExprUncached(f, name);
+        numberCache.put(signature, Optional.ofNullable(e));
+        return e;
+    }
+
+    private Expr numberExprUncached(Facet f, String name) {
         try {
             return numbers(f, name);
         } catch (IllegalArgumentException e) {
@@ -1680,7 +1935,7 @@ final class SchemaCompiler {
 
     private Expr numbers(Facet f, String name) {
         boolean excludes = f.excluded.stream().anyMatch(JsonNode::isNumber);
-        if (excludes) {
+        if (excludes || !f.steps.isEmpty()) {
             // exclusions: the automaton of the number texts minus the excluded texts
             Automaton a = BasicAutomata.makeEmpty();
             if ((f.types & Facet.INT) != 0) {
@@ -1688,6 +1943,10 @@ final class SchemaCompiler {
             }
             if ((f.types & Facet.FRAC) != 0) {
                 a = a.union(fractionAutomaton(f));
+            }
+            for (BigDecimal st : f.steps) {
+                a = a.intersection(multiples(st));
+                a.minimize();
             }
             for (JsonNode x : f.excluded) {
                 if (x.isNumber()) {
@@ -1730,20 +1989,81 @@ final class SchemaCompiler {
         return frag.body();
     }
 
+    /**
+     * Number texts (optional minus, digits, optional point and digits) whose value is a multiple of
+     * {@code step = c / 10^s} (c a positive integer, s > 0): the value times 10^s must be an integer
+     * divisible by c. With D the digits read (point skipped) and f the fraction digits, that is at
+     * most s fraction digits and D * 10^(s-f) divisible by c; the states are (D mod c, f).
+     */
+    static Automaton multiples(BigDecimal step) {
+        int c = step.unscaledValue().intValueExact();
+        int s = step.scale();
+        dk.brics.automaton.State[][] ints = new dk.brics.automaton.State[c][1];
+        dk.brics.automaton.State[][] fracs = new dk.brics.automaton.State[c][s + 1];
+        for (int r = 0; r < c; r++) {
+            ints[r][0] = new dk.brics.automaton.State();
+            for (int f = 1; f <= s; f++) {
+                fracs[r][f] = new dk.brics.automaton.State();
+            }
+        }
+        BigInteger cc = BigInteger.valueOf(c);
+        for (int r = 0; r < c; r++) {
+            ints[r][0].setAccept(BigInteger.valueOf(r).multiply(BigInteger.TEN.pow(s)).mod(cc).signum() == 0);
+            for (int f = 1; f <= s; f++) {
+                fracs[r][f].setAccept(BigInteger.valueOf(r).multiply(BigInteger.TEN.pow(s - f)).mod(cc).signum() == 0);
+            }
+            for (int d = 0; d <= 9; d++) {
+                int next = (r * 10 + d) % c;
+                ints[r][0].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[next][0]));
+                for (int f = 1; f < s; f++) {
+                    fracs[r][f].addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[next][f + 1]));
+                }
+            }
+        }
+        // the point: from an integer state to a state expecting the first fraction digit
+        for (int r = 0; r < c; r++) {
+            dk.brics.automaton.State point = new dk.brics.automaton.State();
+            ints[r][0].addTransition(new dk.brics.automaton.Transition('.', point));
+            for (int d = 0; d <= 9; d++) {
+                point.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), fracs[(r * 10 + d) % c][1]));
+            }
+        }
+        dk.brics.automaton.State start = new dk.brics.automaton.State();
+        dk.brics.automaton.State afterMinus = new dk.brics.automaton.State();
+        start.addTransition(new dk.brics.automaton.Transition('-', afterMinus));
+        for (int d = 0; d <= 9; d++) {
+            start.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[d % c][0]));
+            afterMinus.addTransition(new dk.brics.automaton.Transition((char) ('0' + d), ints[d % c][0]));
+        }
+        Automaton a = new Automaton();
+        a.setInitialState(start);
+        a.setDeterministic(true);
+        a.minimize();
+        return a;
+    }
+
+    private static final Map<Integer, Automaton> CANONICAL_FRACTIONS = new java.util.concurrent.ConcurrentHashMap<>();
+
+    /** Canonical non-integers with at most {@code digits} fraction digits (-1: any number). */
+    private static Automaton canonicalFractions(int digits) {
+        return CANONICAL_FRACTIONS.computeIfAbsent(digits, d -> {
+            Expr canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
+                    Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
+                    Expr.repeat(Expr.chars(DIGITS), 0, d < 0 ? Expr.UNBOUNDED : d - 1), Expr.chars(DIGITS19));
+            return CharAutomata.compile(canonical, null, STATE_LIMIT);
+        }).clone();
+    }
+
     /** Canonical non-integers within the facet's bounds and fraction digits. */
     private Automaton fractionAutomaton(Facet f) {
         if (f.fractionDigits == 0) {
             return BasicAutomata.makeEmpty();
         }
-        Expr canonical = seq(optional(text("-")), choice(List.of(text("0"), seq(Expr.chars(DIGITS19),
-                Expr.repeat(Expr.chars(DIGITS), 0, Expr.UNBOUNDED)))), text("."),
-                Expr.repeat(Expr.chars(DIGITS), 0, f.fractionDigits < 0 ? Expr.UNBOUNDED : f.fractionDigits - 1),
-                Expr.chars(DIGITS19));
-        Automaton a = CharAutomata.compile(canonical, null, STATE_LIMIT);
+        Automaton a = canonicalFractions(f.fractionDigits);
         if (f.lower != null || f.upper != null) {
             a = a.intersection(NumberLanguages.decimalAutomaton(f.lower, f.upper));
+            a.minimize();
         }
-        a.minimize();
         return a;
     }
 
@@ -1768,10 +2088,22 @@ final class SchemaCompiler {
         if (max == 0) {
             return text("[]");
         }
-        if (f.typesOnly() && f.types == Facet.ARR) {
-            // fall through: plain arrays are built below as well
-        }
         JsonText.Punct p = JsonText.punct(options.spacing(), depth);
+        if (f.contains != null) {
+            Expr e = containing(f, min, max, depth, p, name);
+            if (e != null || !f.unique) {
+                return e;
+            }
+        }
+        if (f.unique) {
+            List<String> values = f.prefix.isEmpty() ? finiteTexts(f.items, depth + 1) : null;
+            if (values == null || values.size() > MAX_UNIQUE_VALUES) {
+                refuse(f.pointer, "uniqueItems", "distinct items can be enforced only for items with at most "
+                        + MAX_UNIQUE_VALUES + " possible values" + (options.lenient() ? " (not enforced)" : ""));
+            } else {
+                return distinctItems(values, min, max, p, name);
+            }
+        }
         // rest(i): the items from index i on, i items being there already
         Expr rest;
         {
@@ -1782,7 +2114,7 @@ final class SchemaCompiler {
                 rest = text("");
             } else {
                 Expr item = Expr.ref(ruleFor(f.items, depth + 1));
-                rest = Expr.repeat(seq(text(p.sep()), item), lo, hi);
+                rest = rep(seq(text(p.sep()), item), lo, hi);
             }
         }
         for (int i = k - 1; i >= 1; i--) {
@@ -1798,6 +2130,175 @@ final class SchemaCompiler {
         return min == 0 ? choice(List.of(text("[]"), nonEmpty)) : nonEmpty;
     }
 
+    /**
+     * Arrays with {@code contains}: items that match the contained schema (Y) and items that do not
+     * (N) are told apart, so the count of matches is tracked exactly; states are (items so far,
+     * matches so far), each capped where it stops mattering, the saturated ones written as
+     * repetitions. Null (after a refusal) when the contained schema has no exact complement, the
+     * array has prefix items or distinct items.
+     */
+    private Expr containing(Facet f, int min, int max, int depth, JsonText.Punct p, String name) {
+        Facet.Sub c = Facet.Sub.of(f.contains);
+        if (!f.prefix.isEmpty() || f.unique || complementOrNull(dnf(c)) == null) {
+            refuse(f.pointer, "contains", "contains can be enforced only with no prefixItems or uniqueItems, and a "
+                    + "contained schema with an exact complement" + (options.lenient() ? " (not enforced)" : ""));
+            return null;
+        }
+        Facet.Sub ySub = f.items.and(c);
+        Facet.Sub nSub = f.items.and(new Facet.Sub(List.of("!" + f.contains)));
+        boolean yOk = !dnf(ySub).isEmpty();
+        boolean nOk = !dnf(nSub).isEmpty();
+        Expr y = yOk ? Expr.ref(ruleFor(ySub, depth + 1)) : null;
+        Expr no = nOk ? Expr.ref(ruleFor(nSub, depth + 1)) : null;
+        int lo = f.minContains;
+        int hi = f.maxContains;
+        int nCap = max >= 0 ? max : Math.max(min, 1);
+        int cCap = hi >= 0 ? hi : Math.max(lo, 1);
+        if ((long) (nCap + 1) * (cCap + 1) > MAX_STATES) {
+            throw new SchemaException(f.pointer, "contains", "item and match counts need more than " + MAX_STATES
+                    + " states");
+        }
+        Map<Long, Expr> memo = new HashMap<>();
+        for (int n = nCap; n >= 0; n--) {
+            for (int k = cCap; k >= 0; k--) {
+                boolean nSat = max < 0 && n == nCap;
+                if (k > n && !nSat) {
+                    continue; // more matches than items: unreachable
+                }
+                boolean kSat = hi < 0 && k == cCap;
+                Expr open = text(n == 0 ? "[" + p.open() : p.sep());
+                Expr close = text(n == 0 ? "[]" : p.close() + "]");
+                Expr e;
+                if (nSat && kSat) {
+                    // any further items
+                    Expr item = y == null ? no : no == null ? y : choice(List.of(y, no));
+                    e = seq(Expr.repeat(seq(text(p.sep()), item), 0, Expr.UNBOUNDED), close);
+                } else if (nSat) {
+                    // further non-matching items, then either the end or one more match
+                    List<Expr> opts = new ArrayList<>();
+                    if (k >= lo) {
+                        opts.add(close);
+                    }
+                    Expr after = memo.get(key(n, k + 1));
+                    if (y != null && (hi < 0 || k < hi) && after != null) {
+                        opts.add(seq(text(p.sep()), y, after));
+                    }
+                    Expr rest = opts.isEmpty() ? null : choice(opts);
+                    e = rest == null ? null : no == null ? rest
+                            : seq(Expr.repeat(seq(text(p.sep()), no), 0, Expr.UNBOUNDED), rest);
+                } else if (kSat) {
+                    // any items; only their number counts
+                    Expr item = y == null ? no : no == null ? y : choice(List.of(y, no));
+                    int need = Math.max(0, min - n);
+                    int room = max < 0 ? Expr.UNBOUNDED : max - n;
+                    if (n == 0) {
+                        e = seq(open, item, rep(seq(text(p.sep()), item), Math.max(0, need - 1),
+                                room == Expr.UNBOUNDED ? Expr.UNBOUNDED : room - 1), text(p.close() + "]"));
+                        if (need == 0) {
+                            e = choice(List.of(close, e));
+                        }
+                    } else {
+                        e = seq(rep(seq(text(p.sep()), item), need, room), close);
+                    }
+                } else {
+                    List<Expr> opts = new ArrayList<>();
+                    if (n >= min && k >= lo) {
+                        opts.add(close);
+                    }
+                    if (max < 0 || n < max) {
+                        int n1 = Math.min(n + 1, nCap);
+                        Expr afterY = memo.get(key(n1, Math.min(k + 1, cCap)));
+                        if (y != null && (hi < 0 || k < hi) && afterY != null) {
+                            opts.add(seq(open, y, afterY));
+                        }
+                        Expr afterN = memo.get(key(n1, k));
+                        if (no != null && afterN != null) {
+                            opts.add(seq(open, no, afterN));
+                        }
+                    }
+                    e = opts.isEmpty() ? null : choice(opts);
+                }
+                if (e != null && size(e) >= 12 && n > 0) {
+                    String helper = fresh(name + "-items");
+                    rules.add(Rule.of(helper, e));
+                    e = Expr.ref(helper);
+                }
+                memo.put(key(n, k), e);
+            }
+        }
+        return memo.get(key(0, 0));
+    }
+
+    private static long key(int a, int b) {
+        return ((long) a << 32) | b;
+    }
+
+    /** Arrays of distinct values: a state per set of values used so far. */
+    private Expr distinctItems(List<String> values, int min, int max, JsonText.Punct p, String name) {
+        int k = values.size();
+        Map<Integer, Expr> memo = new HashMap<>();
+        for (int s = (1 << k) - 1; s >= 0; s--) {
+            // supersets have larger numbers: processed first
+            int used = Integer.bitCount(s);
+            List<Expr> opts = new ArrayList<>();
+            if (used >= min) {
+                opts.add(text(used == 0 ? "[]" : p.close() + "]"));
+            }
+            if (max < 0 || used < max) {
+                for (int j = 0; j < k; j++) {
+                    Expr after = memo.get(s | (1 << j));
+                    if ((s & (1 << j)) == 0 && after != null) {
+                        opts.add(seq(text(used == 0 ? "[" + p.open() : p.sep()), text(values.get(j)), after));
+                    }
+                }
+            }
+            Expr e = opts.isEmpty() ? null : choice(opts);
+            if (e != null && s != 0 && size(e) >= 12) {
+                String helper = fresh(name + "-distinct");
+                rules.add(Rule.of(helper, e));
+                e = Expr.ref(helper);
+            }
+            memo.put(s, e);
+        }
+        return memo.get(0);
+    }
+
+    /** The texts of a location's values at a depth when it allows finitely many; null otherwise. */
+    private List<String> finiteTexts(Facet.Sub s, int depth) {
+        Set<String> out = new LinkedHashSet<>();
+        for (Facet f : dnf(s)) {
+            if (f.values != null) {
+                Facet rest = f.copy();
+                rest.values = null;
+                for (JsonNode v : f.values) {
+                    if (matchesFacet(v, rest, 0)) {
+                        String t = JsonText.value(v, options.spacing(), depth);
+                        if (t != null) {
+                            out.add(t);
+                        }
+                    }
+                }
+            } else if ((f.types & ~(Facet.NULL | Facet.BOOL)) == 0) {
+                if ((f.types & Facet.BOOL) != 0) {
+                    for (String b : List.of("true", "false")) {
+                        if (f.excluded.stream().noneMatch(x -> x.isBoolean() && Boolean.toString(x.booleanValue()).equals(b))) {
+                            out.add(b);
+                        }
+                    }
+                }
+                if ((f.types & Facet.NULL) != 0 && f.excluded.stream().noneMatch(JsonNode::isNull)) {
+                    out.add("null");
+                }
+            } else {
+                return null;
+            }
+            if (out.size() > MAX_UNIQUE_VALUES) {
+                return null;
+            }
+        }
+        return new ArrayList<>(out);
+    }
+
     // ---- objects
 
     /** Names of the members laid out in schema order: properties, then required and dependency names not among them. */
@@ -1809,13 +2310,6 @@ final class SchemaCompiler {
             names.addAll(v);
         });
         return new ArrayList<>(names);
-    }
-
-    private Expr objectExpr(Facet f, int depth, String name) {
-        if (f.types == Facet.OBJ && f.noObjectRules() && f.values == null && f.excluded.isEmpty()) {
-            return objectOf(f, depth, name);
-        }
-        return objectOf(f, depth, name);
     }
 
     /** One member's expression: quoted name, colon, value rule. */
@@ -1874,9 +2368,9 @@ final class SchemaCompiler {
         }
         ObjectMachine m = new ObjectMachine(f, kept, members, req, tail, p, name);
         if (options.order() == SchemaOptions.Order.ANY && kept.size() > 1) {
-            if (kept.size() > options.anyOrderLimit()) {
+            if (kept.size() > Math.min(options.anyOrderLimit(), MAX_ANY_ORDER)) {
                 refuse(f.pointer, "properties", "the object has " + kept.size() + " named properties, more than the "
-                        + "limit of " + options.anyOrderLimit() + " for any order"
+                        + "limit of " + Math.min(options.anyOrderLimit(), MAX_ANY_ORDER) + " for any order"
                         + (options.lenient() ? "; schema order is used" : ""));
                 return m.schemaOrder();
             }
@@ -1954,11 +2448,19 @@ final class SchemaCompiler {
         return Expr.ref(member);
     }
 
-    /** A rule for the encoded names an automaton of decoded names allows. */
+    private final Map<String, Expr> keyRules = new HashMap<>();
+
+    /** A rule for the encoded names an automaton of decoded names allows (one rule per language). */
     private Expr keyRule(String base, Automaton keys) {
+        String signature = keys.toString();
+        Expr known = keyRules.get(signature);
+        if (known != null) {
+            return known;
+        }
         String rule = fresh(base);
         Expr body = encodedRules(rule, keys);
         rules.add(Rule.of(rule, body));
+        keyRules.put(signature, Expr.ref(rule));
         return Expr.ref(rule);
     }
 
@@ -2020,6 +2522,14 @@ final class SchemaCompiler {
             if (deps.size() > MAX_DEPENDENT * 2) {
                 throw new SchemaException(f.pointer, "dependentRequired", "too many dependencies to enforce");
             }
+            long involved = 0;
+            for (int[] d : deps) {
+                involved |= (1L << d[0]) | (1L << d[1]);
+            }
+            if ((long) (names.size() + 1) * (cap + 1) * (1L << Long.bitCount(involved)) > MAX_STATES) {
+                throw new SchemaException(f.pointer, f.maxProperties >= 0 ? "maxProperties" : "properties",
+                        "the members need more than " + MAX_STATES + " states to count and order");
+            }
         }
 
         private Expr open(int count) {
@@ -2041,9 +2551,9 @@ final class SchemaCompiler {
                 return count == 0 ? text("{}") : close;
             }
             if (count > 0) {
-                return seq(Expr.repeat(seq(text(p.sep()), tail), lo, hi), close);
+                return seq(rep(seq(text(p.sep()), tail), lo, hi), close);
             }
-            Expr some = seq(text("{" + p.open()), tail, Expr.repeat(seq(text(p.sep()), tail), Math.max(0, lo - 1),
+            Expr some = seq(text("{" + p.open()), tail, rep(seq(text(p.sep()), tail), Math.max(0, lo - 1),
                     hi == Expr.UNBOUNDED ? Expr.UNBOUNDED : hi - 1), close);
             return lo == 0 ? choice(List.of(text("{}"), some)) : some;
         }
@@ -2278,7 +2788,13 @@ final class SchemaCompiler {
         if (v.isArray()) {
             sb.append('[').append(p.open());
             for (int i = 0; i < v.size(); i++) {
-                String item = render(v.get(i), chosen.itemAt(i), depth + 1);
+                Facet.Sub itemSub = chosen.itemAt(i);
+                if (chosen.contains != null && chosen.prefix.isEmpty() && !chosen.unique) {
+                    itemSub = matches(v.get(i), Facet.Sub.of(chosen.contains), depth + 1)
+                            ? itemSub.and(Facet.Sub.of(chosen.contains))
+                            : itemSub.and(new Facet.Sub(List.of("!" + chosen.contains)));
+                }
+                String item = render(v.get(i), itemSub, depth + 1);
                 if (item == null) {
                     return null;
                 }
@@ -2289,7 +2805,7 @@ final class SchemaCompiler {
         List<String> order = new ArrayList<>();
         List<String> named = memberNames(chosen);
         if (options.order() == SchemaOptions.Order.SCHEMA
-                || named.size() > options.anyOrderLimit()) {
+                || named.size() > Math.min(options.anyOrderLimit(), MAX_ANY_ORDER)) {
             for (String n : named) {
                 if (v.has(n)) {
                     order.add(n);

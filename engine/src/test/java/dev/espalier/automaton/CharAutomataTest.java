@@ -277,4 +277,25 @@ class CharAutomataTest {
     void nonPositiveLimitIsRejected() {
         assertThrows(IllegalArgumentException.class, () -> compile(Expr.text("a"), 0));
     }
+
+    /**
+     * Rules that share rules: r0 = "a" r1 / "b" r1, ..., r39 = "a" / "b" (the language (a|b){40}).
+     * Copied per reference without minimising, the unminimised compilation would grow as 2^40;
+     * shared rules are minimised once, so it stays linear.
+     */
+    @Test
+    void sharedRulesDoNotMultiply() {
+        int depth = 40;
+        Map<String, Expr> rules = new HashMap<>();
+        for (int i = 0; i < depth; i++) {
+            Expr next = i + 1 < depth ? Expr.ref("r" + (i + 1)) : Expr.seq();
+            rules.put("r" + i, Expr.choice(Expr.seq(Expr.text("a"), next), Expr.seq(Expr.text("b"), next)));
+        }
+        Automaton a = assertTimeoutPreemptively(Duration.ofSeconds(20),
+                () -> CharAutomata.compileUnminimized(Expr.ref("r0"), rules::get, 1_000));
+        ByteDfa dfa = ByteDfa.fromCharAutomaton(a, 1_000);
+        assertEquals(depth + 1, dfa.stateCount());
+        assertTrue(a.run("ab".repeat(depth / 2)));
+        assertFalse(a.run("ab".repeat(depth / 2) + "a"));
+    }
 }

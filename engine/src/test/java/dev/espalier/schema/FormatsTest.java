@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.espalier.automaton.ByteDfa;
 import dev.espalier.grammar.Rule;
 import dk.brics.automaton.Automaton;
 import java.io.InputStream;
@@ -82,8 +83,11 @@ class FormatsTest {
     void everyFormatCompilesToAnAutomaton() throws Exception {
         for (String name : Formats.names()) {
             Automaton a = Formats.automaton(name).orElseThrow();
+            ByteDfa bytes = ByteDfa.fromCharAutomaton(a, ByteDfa.DEFAULT_STATE_LIMIT);
             for (Case c : suite(name)) {
                 assertEquals(format(name).test(c.data()), a.run(c.data()), () -> name + ": " + c.data());
+                assertEquals(a.run(c.data()), bytes.matches(c.data().getBytes(StandardCharsets.UTF_8)),
+                        () -> name + " (bytes): " + c.data());
             }
         }
     }

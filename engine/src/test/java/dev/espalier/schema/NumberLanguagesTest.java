@@ -28,6 +28,8 @@ class NumberLanguagesTest {
     private static final ObjectMapper JACKSON = new ObjectMapper()
             .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS)
             .enable(DeserializationFeature.USE_BIG_DECIMAL_FOR_FLOATS);
+    private static final ObjectMapper PLAIN_JACKSON = new ObjectMapper()
+            .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
     private static final int RANGE = 2000;
 
     /** Oracle: BigInteger arithmetic, over every integer in [-2000, 2000] written canonically. */
@@ -71,10 +73,10 @@ class NumberLanguagesTest {
     @Test
     void integersNearLargeBoundsAndDivisors() {
         Random random = new Random(0x5EED_1002L);
-        for (int combo = 0; combo < 30; combo++) {
+        for (int combo = 0; combo < 20; combo++) {
             BigInteger lo = new BigInteger(70, random).subtract(BigInteger.ONE.shiftLeft(69));
             BigInteger hi = lo.add(new BigInteger(40, random));
-            BigInteger m = BigInteger.valueOf(1 + random.nextInt(97));
+            BigInteger m = BigInteger.valueOf(1 + random.nextInt(60));
             Bound lower = new Bound(new BigDecimal(lo), random.nextBoolean());
             Bound upper = new Bound(new BigDecimal(hi), random.nextBoolean());
             FragmentRecognizer language = FragmentRecognizer.of(NumberLanguages.integers("n", lower, upper, m));
@@ -124,6 +126,51 @@ class NumberLanguagesTest {
             }
         }
         assertTrue(accepted > checked / 10, "too few accepted texts for a meaningful comparison: " + accepted);
+    }
+
+    /**
+     * Soundness on the languages' own members: texts drawn by random walks through the automata,
+     * when the fragment accepts them, are JSON numbers for Jackson (strict) within the bounds
+     * (BigDecimal) and, for integers, divisible (BigInteger).
+     */
+    @Test
+    void walkedMembersAreJsonNumbersWithinBounds() throws Exception {
+        Random random = new Random(0x5EED_1007L);
+        int members = 0;
+        for (int combo = 0; combo < 60; combo++) {
+            boolean integer = combo % 2 == 0;
+            Bound lower = integer ? randomBound(random) : randomDecimalBound(random);
+            Bound upper = integer ? randomBound(random) : randomDecimalBound(random);
+            BigInteger m = integer && random.nextBoolean() ? BigInteger.valueOf(1 + random.nextInt(40)) : null;
+            Automaton automaton = integer ? NumberLanguages.integerAutomaton(lower, upper, m)
+                    : NumberLanguages.decimalAutomaton(lower, upper);
+            FragmentRecognizer language = FragmentRecognizer.of(integer ? NumberLanguages.integers("n", lower, upper, m)
+                    : NumberLanguages.decimals("d", lower, upper));
+            dev.espalier.automaton.SampleStrings walks = new dev.espalier.automaton.SampleStrings(combo, new int[] {'0'});
+            for (int k = 0; k < 200; k++) {
+                String s = walks.walk(automaton, 30);
+                assertEquals(automaton.run(s), language.test(s), s);
+                if (!language.test(s)) {
+                    continue;
+                }
+                members++;
+                if (!integer && lower == null && upper == null) {
+                    // plain RFC 8259 syntax, exponents of any size: Jackson (strict, as double) reads a number
+                    assertTrue(PLAIN_JACKSON.readTree(s).isNumber(), s);
+                    continue;
+                }
+                JsonNode node = JACKSON.readTree(s);
+                assertTrue(node.isNumber(), s);
+                BigDecimal value = node.decimalValue();
+                assertTrue(within(value, lower, upper), () -> s + " outside " + lower + ".." + upper);
+                assertFalse(s.startsWith("-") && value.signum() == 0, () -> "negative zero " + s);
+                if (integer) {
+                    assertTrue(node.isIntegralNumber(), s);
+                    assertTrue(m == null || value.toBigIntegerExact().mod(m).signum() == 0, s);
+                }
+            }
+        }
+        assertTrue(members > 3000, "too few members walked: " + members);
     }
 
     /** The example of the specification: exclusive lower bound 0.5. */
@@ -186,6 +233,29 @@ class NumberLanguagesTest {
             }
         }
         assertTrue(compared > 60, "too few fragments without rules: " + compared);
+    }
+
+    /**
+     * Wide bounds with a divisor leave rules whose states are shared; they still compile to one byte
+     * automaton (oracle: BigInteger arithmetic on the automaton's verdicts).
+     */
+    @Test
+    void boundedDivisibleRulesCompileToAByteAutomaton() {
+        Bound lower = new Bound(new BigDecimal(-50), false);
+        Bound upper = new Bound(new BigDecimal("1e12"), false);
+        BigInteger m = BigInteger.valueOf(25);
+        RegularFragment f = NumberLanguages.integers("n", lower, upper, m);
+        assertFalse(f.rules().isEmpty(), "expected rules, not one expression");
+        dev.espalier.grammar.Grammar g = FragmentRecognizer.grammar(f);
+        dev.espalier.automaton.ByteDfa dfa = dev.espalier.automaton.ByteDfa.fromCharAutomaton(
+                CharAutomata.compileUnminimized(f.body(), n -> g.rule(n).map(dev.espalier.grammar.Rule::body).orElse(null),
+                        dev.espalier.automaton.ByteDfa.DEFAULT_STATE_LIMIT), dev.espalier.automaton.ByteDfa.DEFAULT_STATE_LIMIT);
+        Random random = new Random(0x5EED_1006L);
+        for (int k = 0; k < 2000; k++) {
+            BigInteger v = k < 200 ? BigInteger.valueOf(k - 100) : new BigInteger(42, random).subtract(BigInteger.valueOf(100));
+            boolean expected = within(new BigDecimal(v), lower, upper) && v.mod(m).signum() == 0;
+            assertEquals(expected, dfa.matches(v.toString().getBytes(java.nio.charset.StandardCharsets.US_ASCII)), v::toString);
+        }
     }
 
     /** Empty ranges give the empty language, not an error. */

@@ -87,10 +87,20 @@ class SchemaAgreementTest {
              "dependentRequired":{"grade":["variety"]},
              "minProperties":1}""";
 
+    static final String HARVEST = """
+            {"type":"object",
+             "properties":{
+               "crates":{"type":"array","items":{"type":"integer","minimum":0,"maximum":40},
+                         "contains":{"minimum":30},"minContains":1,"maxContains":2,"maxItems":5},
+               "pickers":{"type":"array","items":{"enum":["Ash","Briar","Cedar","Hazel"]},"uniqueItems":true}},
+             "required":["crates"],
+             "additionalProperties":false}""";
+
     static Stream<Arguments> schemas() {
         return Stream.of(Arguments.of("inspection report", INSPECTION), Arguments.of("work order", WORK_ORDER),
                 Arguments.of("tree record", TREE_RECORD), Arguments.of("catalogue", CATALOGUE),
-                Arguments.of("sensor reading", READING), Arguments.of("nursery label", LABEL));
+                Arguments.of("sensor reading", READING), Arguments.of("nursery label", LABEL),
+                Arguments.of("harvest log", HARVEST));
     }
 
     @ParameterizedTest(name = "{0}")
@@ -161,7 +171,7 @@ class SchemaAgreementTest {
         assertTrue(complete >= 5, "most samples complete: " + complete);
     }
 
-    private static final String[] NAMES = {"block", "health", "task", "trees", "crew", "variety", "rootstock", "grafts",
+    private static final String[] NAMES = {"crates", "pickers", "block", "health", "task", "trees", "crew", "variety", "rootstock", "grafts",
         "code", "sku-1", "sku-12345", "sensor", "moisture", "celsius", "rows", "grade", "x"};
 
     /** A few random edits: replace a value, drop or add a member, change an item. */
@@ -212,7 +222,7 @@ class SchemaAgreementTest {
     }
 
     private static final String[] STRINGS = {"", "A1", "H12", "Cox", "spray", "soil", "air", "M9", "unknown", "aphid",
-        "prune", "a\"b", "é", "xyzxyzxyzxyzxyz"};
+        "prune", "a\"b", "é", "xyzxyzxyzxyzxyz", "Ash", "Hazel"};
 
     static JsonNode randomValue(Random random, int depth) {
         JsonNodeFactory f = JsonNodeFactory.instance;

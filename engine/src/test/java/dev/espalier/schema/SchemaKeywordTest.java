@@ -60,6 +60,8 @@ class SchemaKeywordTest {
                 "0.001 | 1 | 1.49 | 0.5", "0 | 1.5 | -0.1 | 2"),
             c("multipleOf integer", "{\"type\":\"integer\",\"multipleOf\":7,\"minimum\":0,\"maximum\":100}", "0 | 7 | 98", "1 | 99 | 105 | -7"),
             c("multipleOf power of ten", "{\"type\":\"number\",\"multipleOf\":0.01}", "1 | 2.5 | 3.25 | -0.01", "0.001 | 1.125"),
+            c("multipleOf decimal", "{\"type\":\"number\",\"multipleOf\":0.25,\"maximum\":3}", "0 | 0.25 | 1.5 | 3 | -2.75 | 0.5", "0.1 | 3.25 | 1.2 | 0.125"),
+            c("multipleOf decimal over integers", "{\"type\":\"integer\",\"multipleOf\":1.5}", "0 | 3 | -6 | 30", "1 | 2 | 4 | 1.5"),
             c("properties required", "{\"type\":\"object\",\"properties\":{\"variety\":{\"type\":\"string\"},\"rows\":{\"type\":\"integer\"}},\"required\":[\"variety\"]}",
                 "{\"variety\":\"Cox\"} | {\"rows\":3,\"variety\":\"Cox\"} | {\"variety\":\"Cox\",\"note\":[1]}",
                 "{} | {\"rows\":3} | {\"variety\":1} | []"),
@@ -84,6 +86,8 @@ class SchemaKeywordTest {
             c("dependentRequired", "{\"properties\":{\"graftDate\":{},\"rootstock\":{},\"scion\":{}},\"dependentRequired\":{\"scion\":[\"rootstock\"],\"graftDate\":[\"scion\"]}}",
                 "{} | {\"rootstock\":1} | {\"scion\":1,\"rootstock\":2} | {\"graftDate\":1,\"scion\":2,\"rootstock\":3}",
                 "{\"scion\":1} | {\"graftDate\":1} | {\"graftDate\":1,\"scion\":2}"),
+            c("dependentSchemas", "{\"properties\":{\"scion\":{},\"rootstock\":{}},\"dependentSchemas\":{\"scion\":{\"properties\":{\"rootstock\":{\"enum\":[\"M9\",\"M26\"]}},\"required\":[\"rootstock\"]}}}",
+                "{} | {\"rootstock\":\"MM106\"} | {\"scion\":1,\"rootstock\":\"M9\"} | 5", "{\"scion\":1} | {\"scion\":1,\"rootstock\":\"MM106\"}"),
             c("anyOf", "{\"anyOf\":[{\"type\":\"string\",\"maxLength\":2},{\"type\":\"integer\",\"minimum\":10}]}",
                 "\"ab\" | 10 | 99", "\"abc\" | 9 | null"),
             c("oneOf disjoint by type", "{\"oneOf\":[{\"type\":\"string\"},{\"type\":\"integer\"}]}", "\"a\" | 1", "1.5 | null"),
@@ -115,6 +119,20 @@ class SchemaKeywordTest {
                 "{\"name\":\"orchard\",\"children\":[{\"name\":\"row\",\"children\":[{\"name\":\"tree\"}]}]}",
                 "{\"name\":\"orchard\",\"children\":[{\"children\":[]}]} | {\"name\":\"x\",\"children\":[{\"name\":1}]}"),
             c("boolean schemas", "{\"properties\":{\"a\":true,\"b\":false}}", "{\"a\":[1,{\"x\":null}]} | {}", "{\"b\":1}"),
+            c("uniqueItems over an enum", "{\"type\":\"array\",\"items\":{\"enum\":[\"aphid\",\"scab\",1,{\"a\":[1]}]},\"uniqueItems\":true,\"minItems\":1}",
+                "[\"aphid\"] | [\"scab\",\"aphid\"] | [1,{\"a\":[1]},\"scab\",\"aphid\"] | [1.0,\"scab\"]",
+                "[] | [\"aphid\",\"aphid\"] | [1,1.0] | [{\"a\":[1]},{\"a\":[1.0]}] | [\"canker\"]"),
+            c("uniqueItems over booleans", "{\"type\":\"array\",\"items\":{\"type\":[\"boolean\",\"null\"]},\"uniqueItems\":true}",
+                "[] | [true,null,false] | [false]", "[true,true] | [null,false,null]"),
+            c("contains", "{\"type\":\"array\",\"items\":{\"type\":\"integer\"},\"contains\":{\"minimum\":10}}",
+                "[10] | [1,2,30] | [11,12]", "[] | [1,2,3] | [1,\"x\",10]"),
+            c("minContains maxContains", "{\"type\":\"array\",\"contains\":{\"const\":\"scab\"},\"minContains\":2,\"maxContains\":3,\"maxItems\":5}",
+                "[\"scab\",\"scab\"] | [1,\"scab\",null,\"scab\",\"scab\"]", "[\"scab\"] | [\"scab\",\"scab\",\"scab\",\"scab\"] | [1,2,3,4,\"scab\",\"scab\"]"),
+            c("unevaluatedProperties with allOf and $ref", "{\"$defs\":{\"base\":{\"properties\":{\"id\":{\"type\":\"integer\"}},\"required\":[\"id\"]}},"
+                + "\"allOf\":[{\"$ref\":\"#/$defs/base\"}],\"properties\":{\"variety\":{\"type\":\"string\"}},\"unevaluatedProperties\":false}",
+                "{\"id\":1} | {\"id\":1,\"variety\":\"Cox\"}", "{\"id\":1,\"row\":2} | {\"variety\":\"Cox\"}"),
+            c("unevaluatedItems with prefixItems in allOf", "{\"allOf\":[{\"prefixItems\":[{\"type\":\"string\"}]}],\"unevaluatedItems\":{\"type\":\"integer\"}}",
+                "[] | [\"row\"] | [\"row\",1,2]", "[\"row\",\"x\"] | [1,\"row\"]"),
             c("unevaluatedProperties alone", "{\"properties\":{\"a\":{}},\"unevaluatedProperties\":false}", "{\"a\":1} | {}", "{\"b\":1}"));
         return cs.stream().map(x -> Arguments.of(x.keyword(), x));
     }

@@ -21,14 +21,16 @@ class SchemaStrictnessTest {
     @ParameterizedTest(name = "{0} at {1}")
     @CsvSource(delimiter = '|', value = {
         "uniqueItems      | /properties/rows                 | {'properties':{'rows':{'type':'array','uniqueItems':true}}}",
-        "contains         | /items                           | {'items':{'contains':{'type':'integer'}}}",
-        "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.25}}}",
+        "uniqueItems      | ''                               | {'items':{'enum':[1,2,3,4,5,6,7,8,9]},'uniqueItems':true}",
+        "minProperties    | ''                               | {'properties':{'a':{}},'minProperties':3}",
+        "contains         | /items                           | {'items':{'contains':{'type':'object','additionalProperties':false}}}",
+        "multipleOf       | /properties/price                | {'properties':{'price':{'type':'number','multipleOf':0.000123456789}}}",
         "oneOf            | ''                               | {'oneOf':[{'type':'integer'},{'type':'object','additionalProperties':false}, {'type':'object','properties':{'a':{}},'additionalProperties':false}]}",
         "$ref             | /properties/owner                | {'properties':{'owner':{'$ref':'https://orchard.example/person.json'}}}",
-        "dependentSchemas | ''                               | {'dependentSchemas':{'a':{'required':['b']}}}",
+        "unevaluatedItems | ''                               | {'contains':{'type':'integer'},'unevaluatedItems':false}",
         "not              | /$defs/x                         | {'$defs':{'x':{'not':{'type':'object','additionalProperties':false}}},'$ref':'#/$defs/x'}",
         "pattern          | /properties/code                 | {'properties':{'code':{'pattern':'(a)\\\\1'}}}",
-        "unevaluatedProperties | ''                          | {'allOf':[{'properties':{'a':{}}}],'unevaluatedProperties':false}",
+        "unevaluatedProperties | ''                          | {'anyOf':[{'properties':{'a':{}}},{'properties':{'b':{}}}],'unevaluatedProperties':false}",
     })
     void refusedWithPointer(String keyword, String pointer, String schema) {
         String json = schema.replace('\'', '"');
