@@ -42,6 +42,10 @@ final class BenchCommand implements Callable<Integer> {
             description = "An ABNF grammar to measure instead of the patterns (repeatable).")
     List<String> grammars;
 
+    @Option(names = "--schema", paramLabel = "FILE",
+            description = "A JSON Schema to measure (repeatable; with --grammar, in the same table).")
+    List<String> schemas;
+
     @Option(names = "--vocab", paramLabel = "NAME|PATH",
             description = "A vocabulary (repeatable; default: cl100k, o200k, then Qwen3 (patterns) or Llama 3 and Qwen3 (grammars) when ../shared/vocab has them).")
     List<String> vocabs;
@@ -95,7 +99,7 @@ final class BenchCommand implements Callable<Integer> {
                 pats.put("p" + (i + 1), patterns.get(i));
             }
         }
-        if (grammars != null && !grammars.isEmpty()) {
+        if ((grammars != null && !grammars.isEmpty()) || (schemas != null && !schemas.isEmpty())) {
             return grammarBench(out);
         }
         List<String> vs = vocabs;
@@ -235,6 +239,17 @@ final class BenchCommand implements Callable<Integer> {
             java.lang.management.ManagementFactory.getThreadMXBean();
 
     private int grammarBench(PrintWriter out) {
+        // every file is read (and its problems reported) before any measurement
+        Map<String, dev.espalier.grammar.Grammar> formats = new LinkedHashMap<>();
+        for (String f : grammars == null ? List.<String>of() : grammars) {
+            formats.put(Path.of(f).getFileName().toString(), GrammarFiles.load(f, null, spec.commandLine().getErr()));
+        }
+        for (String f : schemas == null ? List.<String>of() : schemas) {
+            dev.espalier.grammar.Grammar g = SchemaFiles.load(f, dev.espalier.schema.SchemaOptions.defaults(),
+                    spec.commandLine().getErr()).grammar();
+            formats.put(Path.of(f).getFileName().toString(), g);
+            out.println(schemaCompileTimes(f));
+        }
         String head = "%-22s %-20s %9s %9s %9s %8s %8s %8s %8s %8s %6s %8s %10s %8s%n";
         out.printf(head, "grammar", "vocabulary", "compile", "1st-mask", "1st-cpu", "median", "p99", "max", "cpu-med",
                 "cpu-p99", "steps", "cache", "naive", "ratio");
@@ -252,19 +267,37 @@ final class BenchCommand implements Callable<Integer> {
                 // unreported passes so that the JIT has compiled compile and mask paths before any figure is taken
                 Progress.note("warming up on " + v.name());
                 for (int pass = 0; pass < warmUpPasses; pass++) {
-                    for (String f : grammars) {
-                        grammarRow(f, GrammarFiles.load(f, null, spec.commandLine().getErr()), v, true);
+                    for (Map.Entry<String, dev.espalier.grammar.Grammar> f : formats.entrySet()) {
+                        grammarRow(f.getKey(), f.getValue(), v, true);
                     }
                 }
                 warmedUp = true;
             }
-            for (String file : grammars) {
-                dev.espalier.grammar.Grammar g = GrammarFiles.load(file, null, spec.commandLine().getErr());
-                out.println(grammarRow(file, g, v, false));
+            for (Map.Entry<String, dev.espalier.grammar.Grammar> f : formats.entrySet()) {
+                out.println(grammarRow(f.getKey(), f.getValue(), v, false));
                 out.flush();
             }
         }
         return 0;
+    }
+
+    /** Schema to grammar: the median of 9 compiles after 3 unreported ones (the JIT warms up). */
+    private static String schemaCompileTimes(String file) {
+        String text;
+        try {
+            text = Files.readString(Path.of(file), StandardCharsets.UTF_8);
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        double[] t = new double[12];
+        for (int i = 0; i < t.length; i++) {
+            long a = System.nanoTime();
+            dev.espalier.schema.JsonSchemas.compile(text, dev.espalier.schema.SchemaOptions.defaults());
+            t[i] = (System.nanoTime() - a) / 1e6;
+        }
+        double[] warm = Arrays.copyOfRange(t, 3, t.length);
+        return String.format("schema %s: compiled to a grammar in %.2f ms (median of %d; first %.1f ms)",
+                Path.of(file).getFileName(), percentile(warm, 50), warm.length, t[0]);
     }
 
     private String grammarRow(String file, dev.espalier.grammar.Grammar g, Vocabulary v, boolean warmUp) {

@@ -27,6 +27,15 @@ final class ConstraintOptions {
     @Option(names = "--start", paramLabel = "RULE", description = "Start rule of the grammar (default: its first rule).")
     String start;
 
+    @Option(names = "--pretty", description = "With --schema: two-space indented layout (default: no white space).")
+    boolean pretty;
+
+    @Option(names = "--any-order", description = "With --schema: object members in any order (default: schema order).")
+    boolean anyOrder;
+
+    @Option(names = "--lenient", description = "With --schema: relax what cannot be enforced exactly, listing it on stderr.")
+    boolean lenient;
+
     @Option(names = "--state-limit", paramLabel = "N", defaultValue = "" + MaskSettings.DEFAULT_STATE_LIMIT,
             description = "Most states an automaton may have. Default: ${DEFAULT-VALUE}.")
     int stateLimit;
@@ -41,13 +50,20 @@ final class ConstraintOptions {
 
     Constraint compile(Vocabulary vocabulary, java.io.PrintWriter err) {
         if (source.grammar != null) {
+            if (pretty || anyOrder || lenient) {
+                throw new UserInputException("--pretty, --any-order and --lenient apply to --schema only");
+            }
             return Constraint.grammar(GrammarFiles.load(source.grammar, start, err), vocabulary, settings());
         }
         if (start != null) {
             throw new UserInputException("--start applies to --grammar only");
         }
         if (source.schema != null) {
-            throw new UserInputException("--schema is not yet supported");
+            return Constraint.grammar(SchemaFiles.load(source.schema, SchemaFiles.options(pretty, anyOrder, lenient), err)
+                    .grammar(), vocabulary, settings());
+        }
+        if (pretty || anyOrder || lenient) {
+            throw new UserInputException("--pretty, --any-order and --lenient apply to --schema only");
         }
         return Constraint.regex(source.regex, vocabulary, settings());
     }

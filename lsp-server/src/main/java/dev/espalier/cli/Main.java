@@ -22,6 +22,7 @@ import java.io.PrintWriter;
             ExamplesCommand.class,
             FmtCommand.class,
             ServeCommand.class,
+            SchemaCommand.class,
             CommandLine.HelpCommand.class,
         })
 public final class Main implements Runnable {
