@@ -1,6 +1,5 @@
 package dev.espalier.earley;
 
-import dev.espalier.automaton.AutomatonTooLargeException;
 import dev.espalier.automaton.ByteDfa;
 import dev.espalier.automaton.CharAutomata;
 import dev.espalier.grammar.Expr;
@@ -47,12 +46,6 @@ public final class SplitGrammar {
     public static final int MAX_DEPTH = 1_000;
 
     static final int END = Integer.MIN_VALUE;
-
-    /**
-     * Most states of one terminal built from a fragment that has parts: a larger one is lowered into
-     * the skeleton part by part, which compiles faster and keeps per-state mask work small.
-     */
-    public static final int TERMINAL_STATES = 2_000;
 
     final ByteDfa[] terminals;
     final int ntCount;
@@ -231,8 +224,6 @@ public final class SplitGrammar {
     private static final class Lowering {
         final Grammar g;
         final int stateLimit;
-        /** States a divisible fragment's terminal may have before it is lowered into the skeleton instead. */
-        final int terminalLimit;
         final Function<String, Expr> rules;
         final Set<String> skeleton;
         final List<String> ntNames = new ArrayList<>();
@@ -240,7 +231,6 @@ public final class SplitGrammar {
         final List<ByteDfa> dfas = new ArrayList<>();
         final Map<String, Integer> ruleNt = new HashMap<>();
         final Map<String, Integer> lexSymbol = new HashMap<>();
-        final Map<String, Boolean> largeRules = new HashMap<>();
         final IdentityHashMap<Expr, Boolean> lexical = new IdentityHashMap<>();
         final Deque<String> pendingRules = new ArrayDeque<>();
         final int augmented;
@@ -251,7 +241,6 @@ public final class SplitGrammar {
         Lowering(Grammar g, int stateLimit) {
             this.g = g;
             this.stateLimit = stateLimit;
-            this.terminalLimit = Math.min(stateLimit, TERMINAL_STATES);
             this.rules = name -> g.rule(name).map(Rule::body).orElse(null);
             this.skeleton = skeletonRules(g);
             this.augmented = newNt("start'");
@@ -381,43 +370,39 @@ public final class SplitGrammar {
                 if (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT) {
                     throw new IllegalArgumentException("repetition bound above " + EarleyGrammar.MAX_REPEAT);
                 }
-                return repeatSymbol(r, symbolOf(r.body(), depth + 1));
+                int body = symbolOf(r.body(), depth + 1);
+                int nt = newNt(null);
+                List<Integer> seq = new ArrayList<>();
+                if (body != EPSILON) {
+                    for (int i = 0; i < r.min(); i++) {
+                        seq.add(body);
+                    }
+                    if (r.unbounded()) {
+                        int list = newNt(null);
+                        prods.add(new int[] {list});
+                        prods.add(new int[] {list, list, body});
+                        seq.add(list);
+                    } else if (r.max() > r.min()) {
+                        int prev = -1;
+                        for (int k = 0; k < r.max() - r.min(); k++) {
+                            int opt = newNt(null);
+                            prods.add(new int[] {opt});
+                            prods.add(prev < 0 ? new int[] {opt, body} : new int[] {opt, body, prev});
+                            prev = opt;
+                        }
+                        seq.add(prev);
+                    }
+                }
+                int[] p = new int[seq.size() + 1];
+                p[0] = nt;
+                for (int i = 0; i < seq.size(); i++) {
+                    p[i + 1] = seq.get(i);
+                }
+                prods.add(p);
+                return nt;
             }
             int nt = newNt(null);
             addAlternatives(nt, e, depth);
-            return nt;
-        }
-
-        /** The skeleton symbol of {@code r} whose body is the symbol {@code body}. */
-        int repeatSymbol(Expr.Repeat r, int body) {
-            int nt = newNt(null);
-            List<Integer> seq = new ArrayList<>();
-            if (body != EPSILON) {
-                for (int i = 0; i < r.min(); i++) {
-                    seq.add(body);
-                }
-                if (r.unbounded()) {
-                    int list = newNt(null);
-                    prods.add(new int[] {list});
-                    prods.add(new int[] {list, list, body});
-                    seq.add(list);
-                } else if (r.max() > r.min()) {
-                    int prev = -1;
-                    for (int k = 0; k < r.max() - r.min(); k++) {
-                        int opt = newNt(null);
-                        prods.add(new int[] {opt});
-                        prods.add(prev < 0 ? new int[] {opt, body} : new int[] {opt, body, prev});
-                        prev = opt;
-                    }
-                    seq.add(prev);
-                }
-            }
-            int[] p = new int[seq.size() + 1];
-            p[0] = nt;
-            for (int i = 0; i < seq.size(); i++) {
-                p[i + 1] = seq.get(i);
-            }
-            prods.add(p);
             return nt;
         }
 
@@ -428,27 +413,13 @@ public final class SplitGrammar {
             if (known != null) {
                 return known;
             }
-            ByteDfa dfa;
-            boolean nullable;
-            boolean divisible = divisible(fragment) && !(fragment instanceof Expr.Repeat r
-                    && (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT));
-            int limit = divisible ? terminalLimit : stateLimit;
-            try {
-                Automaton a = CharAutomata.compileUnminimized(fragment, rules, limit);
-                nullable = a.run("");
-                if (nullable) {
-                    a = a.minus(Automaton.makeEmptyString());
-                }
-                dfa = ByteDfa.fromCharAutomaton(a, limit);
-            } catch (AutomatonTooLargeException e) {
-                if (!divisible) {
-                    throw e;
-                }
-                int symbol = structuralSymbol(fragment);
-                lexSymbol.put(key, symbol);
-                return symbol;
-            }
+            Automaton a = CharAutomata.compileUnminimized(fragment, rules, stateLimit);
+            boolean nullable = a.run("");
             int symbol;
+            if (nullable) {
+                a = a.minus(Automaton.makeEmptyString());
+            }
+            ByteDfa dfa = ByteDfa.fromCharAutomaton(a, stateLimit);
             if (dfa.isEmpty()) {
                 symbol = nullable ? EPSILON : newNt("(empty)"); // a nonterminal with no production: unproductive
             } else {
@@ -465,122 +436,6 @@ public final class SplitGrammar {
             }
             lexSymbol.put(key, symbol);
             return symbol;
-        }
-
-        /** Whether a fragment has parts that can become terminals of their own. */
-        static boolean divisible(Expr fragment) {
-            return fragment instanceof Expr.Seq || fragment instanceof Expr.Choice
-                    || fragment instanceof Expr.Repeat || fragment instanceof Expr.Ref;
-        }
-
-        /**
-         * A fragment too large for one automaton, lowered one level into the skeleton: its parts become
-         * terminals of their own (and are split again if they too are too large). The language is
-         * unchanged; the parser does more of the work.
-         */
-        int structuralSymbol(Expr fragment) {
-            if (fragment instanceof Expr.Ref r) {
-                int nt = newNt(r.name());
-                Expr body = rules.apply(r.name());
-                if (body == null) {
-                    throw new IllegalArgumentException("undefined rule " + r.name());
-                }
-                prods.add(new int[] {nt, symbolOrNothing(body)});
-                return nt;
-            }
-            if (fragment instanceof Expr.Repeat r) {
-                return repeatSymbol(r, partSymbol(r.body()));
-            }
-            int nt = newNt(null);
-            if (fragment instanceof Expr.Choice c) {
-                for (Expr o : c.options()) {
-                    prods.add(production(nt, List.of(partSymbol(o))));
-                }
-            } else {
-                List<Integer> parts = new ArrayList<>();
-                for (Expr item : ((Expr.Seq) fragment).items()) {
-                    parts.add(partSymbol(item));
-                }
-                prods.add(production(nt, parts));
-            }
-            return nt;
-        }
-
-        /**
-         * The symbol of a part of a fragment found too large: lowered structurally at once when it refers
-         * to a rule known to be too large (sparing a second failed automaton), else tried as a terminal.
-         */
-        private int partSymbol(Expr part) {
-            if (divisible(part)) {
-                for (String name : references(part)) {
-                    if (tooLarge(name)) {
-                        String key = ExprKey.of(part);
-                        Integer known = lexSymbol.get(key);
-                        if (known != null) {
-                            return known;
-                        }
-                        int symbol = structuralSymbol(part);
-                        lexSymbol.put(key, symbol);
-                        return symbol;
-                    }
-                }
-            }
-            return lexicalSymbol(part);
-        }
-
-        /**
-         * Whether a lexical rule's automaton crosses the state limit, decided bottom-up: a rule that
-         * refers to a rule too large counts as too large without an attempt (at worst it is split
-         * further, which keeps the language).
-         */
-        private boolean tooLarge(String name) {
-            String key = Grammar.key(name);
-            Boolean known = largeRules.get(key);
-            if (known != null) {
-                return known;
-            }
-            Expr body = rules.apply(name);
-            boolean large = false;
-            if (body != null) {
-                for (String ref : references(body)) {
-                    if (tooLarge(ref)) {
-                        large = true;
-                        break;
-                    }
-                }
-                if (!large) {
-                    try {
-                        ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(body, rules, terminalLimit),
-                                terminalLimit);
-                    } catch (AutomatonTooLargeException e) {
-                        large = true;
-                    }
-                }
-            }
-            largeRules.put(key, large);
-            return large;
-        }
-
-        private int symbolOrNothing(Expr body) {
-            int s = partSymbol(body);
-            if (s != EPSILON) {
-                return s;
-            }
-            int nt = newNt(null);
-            prods.add(new int[] {nt});
-            return nt;
-        }
-
-        private static int[] production(int nt, List<Integer> symbols) {
-            int[] p = new int[symbols.size() + 1];
-            p[0] = nt;
-            int k = 1;
-            for (int s : symbols) {
-                if (s != EPSILON) {
-                    p[k++] = s;
-                }
-            }
-            return Arrays.copyOf(p, k);
         }
 
         /** Rules from which recursion is reachable (the skeleton), by case-folded name. */
