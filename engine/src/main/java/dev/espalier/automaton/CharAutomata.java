@@ -2,6 +2,7 @@ package dev.espalier.automaton;
 
 import dev.espalier.grammar.CodePointSet;
 import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.ExprFold;
 import dk.brics.automaton.Automaton;
 import dk.brics.automaton.State;
 import dk.brics.automaton.Transition;
@@ -308,13 +309,8 @@ public final class CharAutomata {
         work.push(root);
         while (!work.isEmpty()) {
             Expr e = work.pop();
-            if (e instanceof Expr.Seq s) {
-                s.items().forEach(work::push);
-            } else if (e instanceof Expr.Choice c) {
-                c.options().forEach(work::push);
-            } else if (e instanceof Expr.Repeat r) {
-                work.push(r.body());
-            } else if (e instanceof Expr.Ref r) {
+            ExprFold.children(e).forEach(work::push);
+            if (e instanceof Expr.Ref r) {
                 String key = r.name().toLowerCase(Locale.ROOT);
                 if (counts.merge(key, 1, Integer::sum) == 1 && rules != null) {
                     Expr body = rules.apply(r.name());

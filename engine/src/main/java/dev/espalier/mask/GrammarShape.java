@@ -1,6 +1,7 @@
 package dev.espalier.mask;
 
 import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.ExprFold;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
 
@@ -60,13 +61,8 @@ final class GrammarShape {
         work.push(body);
         while (!work.isEmpty()) {
             Expr e = work.pop();
-            if (e instanceof Expr.Seq s) {
-                s.items().forEach(work::push);
-            } else if (e instanceof Expr.Choice c) {
-                c.options().forEach(work::push);
-            } else if (e instanceof Expr.Repeat r) {
-                work.push(r.body());
-            } else if (e instanceof Expr.Ref r) {
+            ExprFold.children(e).forEach(work::push);
+            if (e instanceof Expr.Ref r) {
                 out.add(Grammar.key(r.name()));
             }
         }
