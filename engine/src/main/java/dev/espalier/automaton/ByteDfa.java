@@ -1,5 +1,6 @@
 package dev.espalier.automaton;
 
+import dev.espalier.grammar.Expr;
 import dk.brics.automaton.Automaton;
 import dk.brics.automaton.State;
 import dk.brics.automaton.Transition;
@@ -11,6 +12,7 @@ import java.util.HashMap;
 import java.util.IdentityHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.function.Function;
 
 /**
  * A minimal deterministic automaton over bytes, in compact array form for the hot path. Every state
@@ -73,6 +75,36 @@ public final class ByteDfa {
     public static ByteDfa fromCharAutomaton(Automaton chars, int stateLimit) {
         ByteNfa nfa = ByteNfa.fromCharAutomaton(chars);
         return determinize(nfa, stateLimit);
+    }
+
+    /**
+     * Compiles a grammar expression straight to a minimal byte DFA over the UTF-8 encodings of its
+     * strings, without a character automaton in between (see {@link ExprNfa}). The language is that
+     * of {@link CharAutomata#compile} followed by {@link #fromCharAutomaton}, its slower twin.
+     *
+     * @param rules      rule bodies by name (null for an undefined rule); may be null when the
+     *                   expression refers to no rule
+     * @param stateLimit the most states of the minimal DFA; the NFA and the unminimised subset
+     *                   automaton may have {@link CharAutomata#NFA_FACTOR} times as many
+     * @throws AutomatonTooLargeException when an automaton crosses its limit
+     * @throws IllegalArgumentException for a reference to an undefined rule
+     */
+    public static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit) {
+        return fromExpr(expr, rules, stateLimit, false);
+    }
+
+    /** As {@link #fromExpr(Expr, Function, int)}, for the language without the empty string. */
+    public static ByteDfa fromExprWithoutEmpty(Expr expr, Function<String, Expr> rules, int stateLimit) {
+        return fromExpr(expr, rules, stateLimit, true);
+    }
+
+    private static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit, boolean withoutEmpty) {
+        if (stateLimit < 1) {
+            throw new IllegalArgumentException("the state limit must be positive: " + stateLimit);
+        }
+        long raw = Math.min(Integer.MAX_VALUE, (long) stateLimit * CharAutomata.NFA_FACTOR);
+        ByteNfa nfa = ExprNfa.of(expr, rules, (int) Math.min(Integer.MAX_VALUE, 2 * raw), stateLimit);
+        return determinize(nfa, (int) raw, stateLimit, withoutEmpty);
     }
 
     /** The start state, or {@link #DEAD} when the language is empty. */
@@ -196,16 +228,19 @@ public final class ByteDfa {
 
     // ---------------------------------------------------------------------------------------------
 
-    /** A byte NFA without epsilon moves: transitions (lo, hi, target) per node. */
+    /** A byte NFA: transitions (lo, hi, target) per node, and optional epsilon moves. */
     static final class ByteNfa {
         final List<int[]> edges = new ArrayList<>(); // per node: flattened lo,hi,to triples
         final List<Integer> edgeCounts = new ArrayList<>();
+        final List<int[]> epsilon = new ArrayList<>(); // per node: targets of epsilon moves, or null
+        boolean hasEpsilon;
         boolean[] accept = new boolean[16];
         int start;
 
         int newNode() {
             edges.add(new int[6]);
             edgeCounts.add(0);
+            epsilon.add(null);
             int id = edges.size() - 1;
             if (id >= accept.length) {
                 accept = Arrays.copyOf(accept, accept.length * 2);
@@ -228,6 +263,51 @@ public final class ByteDfa {
             e[3 * c + 1] = hi;
             e[3 * c + 2] = to;
             edgeCounts.set(from, c + 1);
+        }
+
+        void addEpsilon(int from, int to) {
+            int[] e = epsilon.get(from);
+            if (e == null) {
+                e = new int[] {to};
+            } else {
+                e = Arrays.copyOf(e, e.length + 1);
+                e[e.length - 1] = to;
+            }
+            epsilon.set(from, e);
+            hasEpsilon = true;
+        }
+
+        /** The epsilon closure of a sorted set of nodes, sorted; {@code mark} is scratch space per node. */
+        int[] closure(int[] set, int[] mark, int stamp) {
+            if (!hasEpsilon) {
+                return set;
+            }
+            int[] out = Arrays.copyOf(set, Math.max(8, set.length * 2));
+            int n = 0;
+            ArrayDeque<Integer> work = new ArrayDeque<>();
+            for (int node : set) {
+                mark[node] = stamp;
+                work.push(node);
+            }
+            while (!work.isEmpty()) {
+                int node = work.pop();
+                if (n == out.length) {
+                    out = Arrays.copyOf(out, n * 2);
+                }
+                out[n++] = node;
+                int[] e = epsilon.get(node);
+                if (e != null) {
+                    for (int to : e) {
+                        if (mark[to] != stamp) {
+                            mark[to] = stamp;
+                            work.push(to);
+                        }
+                    }
+                }
+            }
+            out = Arrays.copyOf(out, n);
+            Arrays.sort(out);
+            return out;
         }
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
@@ -295,8 +375,21 @@ public final class ByteDfa {
         }
     }
 
-    /** Subset construction with a state limit, then trimming and Hopcroft minimisation (via brics). */
+    /** Subset construction with a state limit, then trimming and minimisation. */
     static ByteDfa determinize(ByteNfa nfa, int stateLimit) {
+        return determinize(nfa, stateLimit, stateLimit, false);
+    }
+
+    /**
+     * Subset construction (with epsilon closure) then trimming and minimisation.
+     *
+     * @param rawLimit     the most states subset construction may make before minimisation
+     * @param stateLimit   the most states the minimal automaton may have
+     * @param withoutEmpty whether to drop the empty string from the language: the start subset is
+     *                     then not accepting and never re-entered (a later equal subset gets its own
+     *                     state)
+     */
+    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit, boolean withoutEmpty) {
         // byte classes: bytes no edge boundary separates behave alike in every subset
         boolean[] cut = new boolean[257];
         cut[0] = true;
@@ -318,11 +411,15 @@ public final class ByteDfa {
             classOf[b] = classes - 1;
         }
         classLo[classes] = 256;
+        int[] mark = new int[nfa.size()];
+        int stamp = 1;
         Map<IntSet, Integer> index = new HashMap<>();
         List<int[]> sets = new ArrayList<>();
         List<int[]> rows = new ArrayList<>();
-        int[] startSet = {nfa.start};
-        index.put(new IntSet(startSet), 0);
+        int[] startSet = nfa.closure(new int[] {nfa.start}, mark, stamp++);
+        if (!withoutEmpty) {
+            index.put(new IntSet(startSet), 0);
+        }
         sets.add(startSet);
         ArrayDeque<Integer> work = new ArrayDeque<>();
         work.add(0);
@@ -347,7 +444,7 @@ public final class ByteDfa {
                     }
                 }
             }
-            int[] row = new int[256];
+            int[] row = new int[classes];
             Arrays.fill(row, DEAD);
             for (int cl = 0; cl < classes; cl++) {
                 if (bucketSize[cl] == 0) {
@@ -361,11 +458,11 @@ public final class ByteDfa {
                         target[m++] = target[i];
                     }
                 }
-                IntSet key = new IntSet(Arrays.copyOf(target, m));
+                IntSet key = new IntSet(nfa.closure(Arrays.copyOf(target, m), mark, stamp++));
                 Integer id = index.get(key);
                 if (id == null) {
                     id = sets.size();
-                    if (id >= stateLimit) {
+                    if (id >= rawLimit) {
                         throw new AutomatonTooLargeException(stateLimit,
                                 "the byte automaton exceeds its limit of " + stateLimit + " states");
                     }
@@ -373,7 +470,7 @@ public final class ByteDfa {
                     sets.add(key.values);
                     work.add(id);
                 }
-                Arrays.fill(row, classLo[cl], classLo[cl + 1], id);
+                row[cl] = id;
             }
             while (rows.size() <= d) {
                 rows.add(null);
@@ -382,7 +479,7 @@ public final class ByteDfa {
         }
         int n = sets.size();
         boolean[] accept = new boolean[n];
-        for (int d = 0; d < n; d++) {
+        for (int d = withoutEmpty ? 1 : 0; d < n; d++) {
             for (int node : sets.get(d)) {
                 if (nfa.accept[node]) {
                     accept[d] = true;
@@ -390,7 +487,12 @@ public final class ByteDfa {
                 }
             }
         }
-        return minimize(rows, accept, classOf);
+        ByteDfa dfa = minimize(rows, accept, classOf);
+        if (dfa.stateCount() > stateLimit) {
+            throw new AutomatonTooLargeException(stateLimit,
+                    "the byte automaton exceeds its limit of " + stateLimit + " states");
+        }
+        return dfa;
     }
 
     /**
@@ -460,7 +562,7 @@ public final class ByteDfa {
             int[] col = new int[m];
             for (int i = 0; i < n; i++) {
                 if (live[i]) {
-                    int to = rows.get(i)[b];
+                    int to = rows.get(i)[inputClass[b]];
                     col[renum[i]] = to == DEAD ? DEAD : renum[to];
                 }
             }
@@ -481,7 +583,7 @@ public final class ByteDfa {
             }
             accepting[renum[i]] = acc[i];
             for (int c = 0; c < classes; c++) {
-                int to = rows.get(i)[representative[c]];
+                int to = rows.get(i)[inputClass[representative[c]]];
                 delta[renum[i] * classes + c] = to == DEAD ? DEAD : renum[to];
             }
         }

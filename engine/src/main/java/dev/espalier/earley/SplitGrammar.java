@@ -1,12 +1,10 @@
 package dev.espalier.earley;
 
 import dev.espalier.automaton.ByteDfa;
-import dev.espalier.automaton.CharAutomata;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.ExprFold;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
-import dk.brics.automaton.Automaton;
 
 import java.util.ArrayDeque;
 import java.util.ArrayList;
@@ -413,13 +411,10 @@ public final class SplitGrammar {
             if (known != null) {
                 return known;
             }
-            Automaton a = CharAutomata.compileUnminimized(fragment, rules, stateLimit);
-            boolean nullable = a.run("");
+            ByteDfa all = ByteDfa.fromExpr(fragment, rules, stateLimit);
+            boolean nullable = !all.isEmpty() && all.accepts(all.start());
             int symbol;
-            if (nullable) {
-                a = a.minus(Automaton.makeEmptyString());
-            }
-            ByteDfa dfa = ByteDfa.fromCharAutomaton(a, stateLimit);
+            ByteDfa dfa = nullable ? ByteDfa.fromExprWithoutEmpty(fragment, rules, stateLimit) : all;
             if (dfa.isEmpty()) {
                 symbol = nullable ? EPSILON : newNt("(empty)"); // a nonterminal with no production: unproductive
             } else {

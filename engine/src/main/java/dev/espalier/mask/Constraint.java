@@ -83,9 +83,8 @@ public interface Constraint {
         }
         if (!GrammarShape.reachesRecursion(grammar)) {
             try {
-                ByteDfa dfa = ByteDfa.fromCharAutomaton(CharAutomata.compileUnminimized(Expr.ref(grammar.start()),
-                        name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit()),
-                        settings.stateLimit());
+                ByteDfa dfa = ByteDfa.fromExpr(Expr.ref(grammar.start()),
+                        name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit());
                 if (dfa.isEmpty()) {
                     throw new IllegalArgumentException("the grammar's language is empty: no output can satisfy it");
                 }

@@ -1,0 +1,177 @@
+package dev.espalier.automaton;
+
+import dev.espalier.grammar.CodePointSet;
+import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.Grammar;
+
+import java.util.ArrayDeque;
+import java.util.Deque;
+import java.util.HashMap;
+import java.util.Map;
+import java.util.function.Function;
+
+/**
+ * Builds a byte NFA straight from a grammar expression, one piece at a time: each task wires an
+ * expression between two given nodes (Thompson's construction over UTF-8 bytes, with epsilon
+ * moves). A referenced rule is wired once per continuation node and shared by every reference with
+ * that continuation, so a right-linear system of rules (an automaton written as rules, as the schema
+ * compiler writes large string languages) becomes an NFA of one node per rule instead of a copy per
+ * path. Iterative: no Java recursion however deep the rules chain.
+ */
+final class ExprNfa {
+
+    private final ByteDfa.ByteNfa nfa = new ByteDfa.ByteNfa();
+    private final Function<String, Expr> rules;
+    private final int nodeLimit;
+    private final int stateLimit;
+    private final Map<String, Integer> ruleEntries = new HashMap<>();
+    private final Deque<Task> work = new ArrayDeque<>();
+
+    /** Wire {@code expr} from node {@code from} to node {@code to}. */
+    private record Task(Expr expr, int from, int to) {
+    }
+
+    private ExprNfa(Function<String, Expr> rules, int nodeLimit, int stateLimit) {
+        this.rules = rules;
+        this.nodeLimit = nodeLimit;
+        this.stateLimit = stateLimit;
+    }
+
+    /**
+     * The NFA of {@code root}: start node, one accepting node.
+     *
+     * @param rules     rule bodies by name (null for an undefined rule); may be null when the
+     *                  expression refers to no rule
+     * @param nodeLimit the most nodes the NFA may have
+     * @param stateLimit the state limit reported when the node limit is crossed
+     * @throws IllegalArgumentException for a reference to an undefined rule
+     * @throws AutomatonTooLargeException when the NFA would cross {@code nodeLimit}
+     */
+    static ByteDfa.ByteNfa of(Expr root, Function<String, Expr> rules, int nodeLimit, int stateLimit) {
+        ExprNfa b = new ExprNfa(rules, nodeLimit, stateLimit);
+        int start = b.node();
+        int end = b.node();
+        b.nfa.start = start;
+        b.nfa.accept[end] = true;
+        b.work.push(new Task(root, start, end));
+        while (!b.work.isEmpty()) {
+            b.wire(b.work.pop());
+        }
+        return b.nfa;
+    }
+
+    private int node() {
+        if (nfa.size() >= nodeLimit) {
+            throw new AutomatonTooLargeException(stateLimit,
+                    "the byte automaton exceeds its limit of " + stateLimit + " states");
+        }
+        return nfa.newNode();
+    }
+
+    private void wire(Task t) {
+        Expr e = t.expr();
+        int from = t.from();
+        int to = t.to();
+        if (e instanceof Expr.Chars c) {
+            CodePointSet set = c.set();
+            for (int i = 0; i < set.rangeCount(); i++) {
+                addCodePoints(from, set.lo(i), set.hi(i), to);
+            }
+        } else if (e instanceof Expr.Text x) {
+            text(x.text(), x.ignoreCase(), from, to);
+        } else if (e instanceof Expr.Seq s) {
+            int cur = from;
+            for (int i = 0; i < s.items().size(); i++) {
+                int next = i == s.items().size() - 1 ? to : node();
+                work.push(new Task(s.items().get(i), cur, next));
+                cur = next;
+            }
+            if (s.items().isEmpty()) {
+                nfa.addEpsilon(from, to);
+            }
+        } else if (e instanceof Expr.Choice c) {
+            for (Expr o : c.options()) {
+                work.push(new Task(o, from, to));
+            }
+        } else if (e instanceof Expr.Repeat r) {
+            int cur = from;
+            for (int i = 0; i < r.min(); i++) {
+                int next = node();
+                work.push(new Task(r.body(), cur, next));
+                cur = next;
+            }
+            if (r.unbounded()) {
+                int loop = node();
+                nfa.addEpsilon(cur, loop);
+                work.push(new Task(r.body(), loop, loop));
+                nfa.addEpsilon(loop, to);
+            } else {
+                for (int i = r.min(); i < r.max(); i++) {
+                    nfa.addEpsilon(cur, to);
+                    int next = node();
+                    work.push(new Task(r.body(), cur, next));
+                    cur = next;
+                }
+                nfa.addEpsilon(cur, to);
+            }
+        } else if (e instanceof Expr.Ref r) {
+            String key = Grammar.key(r.name()) + "\u0000" + to;
+            Integer entry = ruleEntries.get(key);
+            if (entry == null) {
+                Expr body = rules == null ? null : rules.apply(r.name());
+                if (body == null) {
+                    throw new IllegalArgumentException("undefined rule " + r.name());
+                }
+                entry = node();
+                ruleEntries.put(key, entry);
+                work.push(new Task(body, entry, to));
+            }
+            nfa.addEpsilon(from, entry);
+        } else {
+            throw new IllegalStateException("unknown expression " + e);
+        }
+    }
+
+    /** Code points lo..hi, surrogates excepted (they have no UTF-8 encoding). */
+    private void addCodePoints(int from, int lo, int hi, int to) {
+        for (Utf8.ByteRanges r : Utf8.ranges(lo, hi)) {
+            int cur = from;
+            for (int i = 0; i < r.length(); i++) {
+                int next = i == r.length() - 1 ? to : node();
+                nfa.addEdge(cur, r.lo()[i], r.hi()[i], next);
+                cur = next;
+            }
+        }
+    }
+
+    /**
+     * A literal: its code points in order; with {@code ignoreCase}, ASCII letters in either case
+     * (RFC 5234 quoted strings). A lone surrogate matches nothing.
+     */
+    private void text(String s, boolean ignoreCase, int from, int to) {
+        int n = s.codePointCount(0, s.length());
+        if (n == 0) {
+            nfa.addEpsilon(from, to);
+            return;
+        }
+        int cur = from;
+        int k = 0;
+        for (int i = 0; i < s.length(); k++) {
+            int cp = s.codePointAt(i);
+            i += Character.charCount(cp);
+            if (cp >= Character.MIN_SURROGATE && cp <= Character.MAX_SURROGATE) {
+                return; // no edge: the empty language
+            }
+            int next = k == n - 1 ? to : node();
+            if (ignoreCase && cp < 128 && Character.isLetter(cp)) {
+                int lower = Character.toLowerCase(cp);
+                int upper = Character.toUpperCase(cp);
+                nfa.addEdge(cur, lower, lower, next);
+                nfa.addEdge(cur, upper, upper, next);
+            } else {
+                addCodePoints(cur, cp, cp, next);
+            }
+            cur = next;
+        }
+    }
+}
