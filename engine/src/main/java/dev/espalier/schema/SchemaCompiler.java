@@ -1856,8 +1856,13 @@ final class SchemaCompiler {
 
     /** Rules for an automaton over decoded strings, encoded; returns the body expression (no quotes). */
     private Expr encodedRules(String base, Automaton a) {
+        return encodedRules(base, a, false);
+    }
+
+    /** As {@link #encodedRules(String, Automaton)}; {@code minimal} when the automaton is known to be minimal. */
+    private Expr encodedRules(String base, Automaton a, boolean minimal) {
         String prefix = freshPrefix(base);
-        RegularFragment frag = RegularRules.of(prefix, a);
+        RegularFragment frag = minimal ? RegularRules.ofMinimal(prefix, a) : RegularRules.of(prefix, a);
         for (Rule r : frag.rules()) {
             usedNames.add(r.key());
             rules.add(Rule.of(r.name(), encode(r.body())));
@@ -1903,7 +1908,7 @@ final class SchemaCompiler {
             if (a.isEmpty()) {
                 return null;
             }
-            content = encodedRules(name + "-text", a);
+            content = encodedRules(name + "-text", a, true); // stringAutomaton minimises
         }
         return seq(text("\""), content, text("\""));
     }
