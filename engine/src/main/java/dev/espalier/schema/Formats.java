@@ -60,7 +60,7 @@ public final class Formats {
     private static final List<String> NAMES = List.of("date-time", "date", "time", "duration", "email", "hostname",
             "ipv4", "ipv6", "uuid", "uri", "uri-reference");
     private static final Map<String, String> GAPS = Map.of(
-            "date-time", "leap seconds only as 23:59:60 with a zero offset",
+            "date-time", "leap seconds only as 23:59:60 with a zero offset, on any date (no table of the leap seconds announced)",
             "time", "leap seconds only as 23:59:60 with a zero offset",
             "email", "no quoted local parts or general address literals; length limits not enforced",
             "hostname", "total length (253) not enforced; A-labels not decoded (Punycode/IDNA validity unchecked)");

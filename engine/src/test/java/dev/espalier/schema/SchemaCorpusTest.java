@@ -133,7 +133,7 @@ class SchemaCorpusTest {
         public String toString() {
             return String.format("%d/%d complete and valid%s%s, %d ms", complete, outputs,
                     duplicates == 0 ? "" : " (" + duplicates + " with a repeated member name)",
-                    domains == 0 ? "" : " (" + domains + " e-mail domains outside the validator's list)", millis);
+                    domains == 0 ? "" : " (" + domains + " e-mail domains or leap-second dates outside the validator's tables)", millis);
         }
     }
 
@@ -144,7 +144,7 @@ class SchemaCorpusTest {
         EarleyGrammar recognizer = EarleyGrammar.compile(r.grammar());
         long[] closers = closers(CL100K);
         long[] singles = singleBytes(CL100K);
-        Random rnd = new Random(name.hashCode() * 31L + options.hashCode());
+        Random rnd = new Random(name.hashCode() * 31L + options.toString().hashCode());
         int complete = 0;
         int duplicates = 0;
         int domains = 0;
@@ -172,7 +172,7 @@ class SchemaCorpusTest {
                 fail(where + ": Jackson (strict) refuses a generated text: " + e.getMessage() + "\n" + text);
             }
             List<com.networknt.schema.Error> errors = reference.validate(text);
-            int unlisted = Reference.unlistedTopLevelDomains(errors);
+            int unlisted = Reference.outsideTheValidatorsTables(errors);
             if (unlisted < 0) {
                 fail(where + ": json-schema-validator finds a generated text invalid: " + errors + "\n" + text);
             }
@@ -300,6 +300,7 @@ class SchemaCorpusTest {
         }
 
         private static final Schema EMAIL = REGISTRY.getSchema("{\"type\":\"string\",\"format\":\"email\"}", InputFormat.JSON);
+        private static final Schema DATE_TIME = REGISTRY.getSchema("{\"type\":\"string\",\"format\":\"date-time\"}", InputFormat.JSON);
 
         /** The validator's errors on an instance (JSON text); empty when it is valid. */
         List<String> errors(String instanceJson) {
@@ -321,13 +322,29 @@ class SchemaCorpusTest {
          * this version), a rule beyond the Mailbox syntax of RFC 5321 section 4.1.2 that the JSON
          * Schema format refers to. Returns how many errors are only that: an e-mail format error on an
          * address that the validator accepts once its last label is replaced by {@code com}. Returns -1
-         * when any error is something else.
+         * when any error is something else. A leap second refused by the validator's table of announced
+         * leap seconds counts the same way (see below).
          */
-        static int unlistedTopLevelDomains(List<com.networknt.schema.Error> errors) {
+        static int outsideTheValidatorsTables(List<com.networknt.schema.Error> errors) {
             for (com.networknt.schema.Error e : errors) {
                 String address = e.getInstanceNode() != null && e.getInstanceNode().isString()
                         ? e.getInstanceNode().asString() : null;
-                if (!"format".equals(e.getKeyword()) || !e.getMessage().contains("email") || address == null) {
+                if (!"format".equals(e.getKeyword()) || address == null) {
+                    return -1;
+                }
+                if (e.getMessage().contains("date-time")) {
+                    // the validator also checks a leap second against its table of the leap seconds
+                    // announced (1998-12-31T23:59:60Z passes, 2020-04-18T23:59:60Z fails, as measured);
+                    // RFC 3339 section 5.7 leaves that table to the application and the grammar takes
+                    // 23:59:60 with a zero offset on any date (a documented gap of the format)
+                    String second = address.length() >= 20 ? address.substring(11, 19) : "";
+                    if (!second.equals("23:59:60") || !validate(DATE_TIME,
+                            READER.writeValueAsString(address.substring(0, 17) + "59" + address.substring(19))).isEmpty()) {
+                        return -1;
+                    }
+                    continue;
+                }
+                if (!e.getMessage().contains("email")) {
                     return -1;
                 }
                 int at = address.lastIndexOf('@');
