@@ -1333,26 +1333,36 @@ final class SchemaCompiler {
         if (a != null) {
             return a;
         }
-        a = CharAutomata.compile(Expr.repeat(Expr.chars(CodePointSet.ALL), f.minLength,
+        // the language without its length bounds first (small automata), then the length range as a
+        // product with a counter (StringLengths), which stays fast where the product is large
+        boolean shaped = !f.patterns.isEmpty() || !f.formats.isEmpty() || !f.notStrings.isEmpty();
+        a = shaped ? null : CharAutomata.compile(Expr.repeat(Expr.chars(CodePointSet.ALL), f.minLength,
                 f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength), null, STATE_LIMIT);
+        boolean shared = shaped; // a pattern's or a format's automaton is shared: operations make new ones
         for (Facet.Pattern p : f.patterns) {
-            a = a.intersection(searchAutomaton(p.regex()));
-            a.minimize();
+            shared = a == null;
+            a = a == null ? searchAutomaton(p.regex()) : a.intersection(searchAutomaton(p.regex()));
         }
         for (String fm : f.formats) {
-            a = a.intersection(Formats.automaton(fm).orElseThrow());
-            a.minimize();
+            shared = a == null;
+            a = a == null ? Formats.automaton(fm).orElseThrow() : a.intersection(Formats.automaton(fm).orElseThrow());
         }
         for (Facet neg : f.notStrings) {
-            a = a.minus(stringAutomaton(neg));
-            a.minimize();
+            a = (a == null ? Automaton.makeAnyString() : a).minus(stringAutomaton(neg));
+            shared = false;
         }
         for (JsonNode x : f.excluded) {
             if (x.isTextual()) {
                 a = a.minus(BasicAutomata.makeString(x.textValue()));
+                shared = false;
             }
         }
-        a.minimize();
+        if (!shared) {
+            a.minimize(); // also keeps the length product small
+        }
+        if (shaped) {
+            a = StringLengths.bounded(a, f.minLength, f.maxLength, STATE_LIMIT);
+        }
         if (a.getNumberOfStates() > STATE_LIMIT) {
             throw new AutomatonTooLargeException(STATE_LIMIT);
         }

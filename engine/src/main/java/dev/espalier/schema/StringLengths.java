@@ -1,0 +1,278 @@
+package dev.espalier.schema;
+
+import dev.espalier.automaton.AutomatonTooLargeException;
+import dev.espalier.automaton.CharAutomata;
+import dev.espalier.grammar.CodePointSet;
+import dev.espalier.grammar.Expr;
+import dk.brics.automaton.Automaton;
+import dk.brics.automaton.State;
+import dk.brics.automaton.Transition;
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.IdentityHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * A string language cut to a length range in code points ({@code minLength}/{@code maxLength}), as a
+ * minimal deterministic automaton over well-formed UTF-16.
+ *
+ * <p>The product of the language's automaton with a counter of code points is built breadth-first
+ * over (state, count, inside a surrogate pair). With an upper bound every step of a code point raises
+ * the count, so the product is acyclic and is minimised bottom-up in one pass, from the highest count
+ * down, by merging states with equal acceptance and equal steps (Revuz's method for acyclic
+ * automata); no general minimisation runs over the large product. Without an upper bound the count
+ * stops at the lower bound and dk.brics minimises the (small) product. The slow twin,
+ * {@link #byIntersection}, intersects with a repetition of any code point and minimises.
+ */
+final class StringLengths {
+
+    private static final int DEAD = -1;
+
+    /** Most product states visited before giving up, whatever the state limit. */
+    static final long PRODUCT_LIMIT = 4_000_000;
+
+    private StringLengths() {
+    }
+
+    /**
+     * The strings of {@code language} with between {@code min} and {@code max} code points
+     * ({@code max < 0}: no upper bound), minimal and deterministic; lone surrogates are dropped.
+     *
+     * @throws AutomatonTooLargeException when the result would have more than {@code stateLimit} states
+     */
+    static Automaton bounded(Automaton language, int min, int max, int stateLimit) {
+        Automaton a = language;
+        if (!a.isDeterministic()) {
+            a = a.clone();
+            a.determinize();
+        }
+        List<State> states = new ArrayList<>();
+        Map<State, Integer> index = new IdentityHashMap<>();
+        ArrayDeque<State> work = new ArrayDeque<>();
+        index.put(a.getInitialState(), 0);
+        states.add(a.getInitialState());
+        work.add(a.getInitialState());
+        while (!work.isEmpty()) {
+            for (Transition t : work.poll().getTransitions()) {
+                if (index.putIfAbsent(t.getDest(), states.size()) == null) {
+                    states.add(t.getDest());
+                    work.add(t.getDest());
+                }
+            }
+        }
+        Transition[][] steps = new Transition[states.size()][];
+        for (int q = 0; q < states.size(); q++) {
+            steps[q] = states.get(q).getSortedTransitions(false).toArray(new Transition[0]);
+        }
+        Automaton out = max < 0 ? cyclic(states, index, steps, min, stateLimit)
+                : acyclic(states, index, steps, min, max, stateLimit);
+        if (out.getNumberOfStates() > stateLimit) {
+            throw new AutomatonTooLargeException(stateLimit);
+        }
+        return out;
+    }
+
+    /** The slow twin: intersection with {@code min..max} code points, minimised by dk.brics. */
+    static Automaton byIntersection(Automaton language, int min, int max, int stateLimit) {
+        Automaton lengths = CharAutomata.compile(Expr.repeat(Expr.chars(CodePointSet.ALL), min,
+                max < 0 ? Expr.UNBOUNDED : max), null, stateLimit);
+        Automaton a = lengths.intersection(language);
+        a.minimize();
+        return a;
+    }
+
+    /** The steps of one code unit range from a product state: a target product state per part. */
+    private interface Steps {
+        void step(int lo, int hi, int q, int count, boolean pending);
+    }
+
+    /**
+     * Splits a transition's range by what it does to the count: outside a surrogate pair a BMP
+     * character adds one and a high surrogate opens a pair; inside a pair only a low surrogate may
+     * follow, and it adds one.
+     */
+    private static void split(Transition t, int q, int count, boolean pending, Steps out) {
+        int lo = t.getMin();
+        int hi = t.getMax();
+        if (pending) {
+            clip(lo, hi, 0xDC00, 0xDFFF, q, count + 1, false, out);
+        } else {
+            clip(lo, hi, 0, 0xD7FF, q, count + 1, false, out);
+            clip(lo, hi, 0xD800, 0xDBFF, q, count, true, out);
+            clip(lo, hi, 0xE000, 0xFFFF, q, count + 1, false, out);
+        }
+    }
+
+    private static void clip(int lo, int hi, int from, int to, int q, int count, boolean pending, Steps out) {
+        int l = Math.max(lo, from);
+        int h = Math.min(hi, to);
+        if (l <= h) {
+            out.step(l, h, q, count, pending);
+        }
+    }
+
+    private static Automaton acyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
+            int min, int max, int stateLimit) {
+        int n = states.size();
+        long size = (long) n * (max + 1) * 2;
+        if (size > PRODUCT_LIMIT) {
+            throw new AutomatonTooLargeException(stateLimit,
+                    "a string length bound of " + max + " over an automaton of " + n + " states exceeds the product limit");
+        }
+        // product state (q, c, p) is ((c * 2) + p) * n + q
+        boolean[] reached = new boolean[(int) size];
+        ArrayDeque<Integer> work = new ArrayDeque<>();
+        reached[0] = true;
+        work.add(0);
+        while (!work.isEmpty()) {
+            int id = work.poll();
+            int q = id % n;
+            int c = id / n / 2;
+            boolean p = (id / n) % 2 == 1;
+            for (Transition t : steps[q]) {
+                int dest = index.get(t.getDest());
+                split(t, dest, c, p, (lo, hi, tq, tc, tp) -> {
+                    if (tc <= max) {
+                        int tid = (tc * 2 + (tp ? 1 : 0)) * n + tq;
+                        if (!reached[tid]) {
+                            reached[tid] = true;
+                            work.add(tid);
+                        }
+                    }
+                });
+            }
+        }
+        int[] cls = new int[(int) size];
+        Map<Signature, Integer> classes = new HashMap<>();
+        List<int[]> classSteps = new ArrayList<>();
+        List<Boolean> classAccept = new ArrayList<>();
+        int[] buffer = new int[64];
+        for (int c = max; c >= 0; c--) {
+            for (int p = 1; p >= 0; p--) {
+                for (int q = 0; q < n; q++) {
+                    int id = (c * 2 + p) * n + q;
+                    if (!reached[id]) {
+                        continue;
+                    }
+                    int[] len = {0};
+                    int[][] buf = {buffer};
+                    for (Transition t : steps[q]) {
+                        int dest = index.get(t.getDest());
+                        split(t, dest, c, p == 1, (lo, hi, tq, tc, tp) -> {
+                            if (tc > max) {
+                                return;
+                            }
+                            int target = cls[(tc * 2 + (tp ? 1 : 0)) * n + tq];
+                            if (target == DEAD) {
+                                return;
+                            }
+                            int k = len[0];
+                            if (k >= 3 && buf[0][k - 1] == target && buf[0][k - 2] + 1 == lo) {
+                                buf[0][k - 2] = hi; // adjacent range to the same class: merged
+                                return;
+                            }
+                            if (k + 3 > buf[0].length) {
+                                buf[0] = Arrays.copyOf(buf[0], buf[0].length * 2);
+                            }
+                            buf[0][k] = lo;
+                            buf[0][k + 1] = hi;
+                            buf[0][k + 2] = target;
+                            len[0] = k + 3;
+                        });
+                    }
+                    buffer = buf[0];
+                    boolean accept = p == 0 && c >= min && states.get(q).isAccept();
+                    if (len[0] == 0 && !accept) {
+                        cls[id] = DEAD;
+                        continue;
+                    }
+                    int[] row = Arrays.copyOf(buffer, len[0]);
+                    Signature sig = new Signature(accept, row);
+                    Integer known = classes.get(sig);
+                    if (known == null) {
+                        known = classSteps.size();
+                        if (known >= stateLimit) {
+                            throw new AutomatonTooLargeException(stateLimit);
+                        }
+                        classes.put(sig, known);
+                        classSteps.add(row);
+                        classAccept.add(accept);
+                    }
+                    cls[id] = known;
+                }
+            }
+        }
+        if (cls[0] == DEAD) {
+            return Automaton.makeEmpty();
+        }
+        State[] made = new State[classSteps.size()];
+        for (int k = 0; k < made.length; k++) {
+            made[k] = new State();
+            made[k].setAccept(classAccept.get(k));
+        }
+        for (int k = 0; k < made.length; k++) {
+            int[] row = classSteps.get(k);
+            for (int i = 0; i < row.length; i += 3) {
+                made[k].addTransition(new Transition((char) row[i], (char) row[i + 1], made[row[i + 2]]));
+            }
+        }
+        Automaton out = new Automaton();
+        out.setInitialState(made[cls[0]]);
+        out.setDeterministic(true);
+        return out;
+    }
+
+    private static Automaton cyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
+            int min, int stateLimit) {
+        int n = states.size();
+        Map<Integer, State> made = new HashMap<>();
+        ArrayDeque<Integer> work = new ArrayDeque<>();
+        made.put(0, new State());
+        work.add(0);
+        while (!work.isEmpty()) {
+            int id = work.poll();
+            int q = id % n;
+            int c = id / n / 2;
+            boolean p = (id / n) % 2 == 1;
+            State s = made.get(id);
+            s.setAccept(!p && c >= min && states.get(q).isAccept());
+            for (Transition t : steps[q]) {
+                int dest = index.get(t.getDest());
+                split(t, dest, c, p, (lo, hi, tq, tc, tp) -> {
+                    int tid = (Math.min(tc, min) * 2 + (tp ? 1 : 0)) * n + tq;
+                    State target = made.get(tid);
+                    if (target == null) {
+                        if (made.size() >= (long) stateLimit * CharAutomata.NFA_FACTOR) {
+                            throw new AutomatonTooLargeException(stateLimit);
+                        }
+                        target = new State();
+                        made.put(tid, target);
+                        work.add(tid);
+                    }
+                    s.addTransition(new Transition((char) lo, (char) hi, target));
+                });
+            }
+        }
+        Automaton out = new Automaton();
+        out.setInitialState(made.get(0));
+        out.setDeterministic(true);
+        out.minimize();
+        return out;
+    }
+
+    /** Acceptance and steps (lo, hi, target class triples, ascending) of a product state. */
+    private record Signature(boolean accept, int[] steps) {
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Signature s && s.accept == accept && Arrays.equals(s.steps, steps);
+        }
+
+        @Override
+        public int hashCode() {
+            return Arrays.hashCode(steps) * 2 + (accept ? 1 : 0);
+        }
+    }
+}
