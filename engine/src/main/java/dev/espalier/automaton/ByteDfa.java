@@ -186,9 +186,123 @@ public final class ByteDfa {
      * both", stopped after {@code depth} rounds or when stable. States of one block allow exactly
      * the same tokens of at most {@code depth} bytes (acceptance aside).
      *
+     * <p>Each round only re-examines the blocks holding a predecessor of a state that changed block in
+     * the round before: the others cannot split. {@link #viableClassesByRounds} is the slow twin that
+     * re-examines every state in every round.
+     *
      * @return the block of each state, numbered from 0
      */
     public int[] viableClasses(int depth) {
+        int n = stateCount();
+        int[] block = new int[n];
+        if (n == 0) {
+            return block;
+        }
+        // predecessors of each state (one entry per distinct predecessor and class)
+        int[] predStart = new int[n + 1];
+        for (int i = 0; i < table.length; i++) {
+            if (table[i] != DEAD) {
+                predStart[table[i] + 1]++;
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            predStart[i + 1] += predStart[i];
+        }
+        int[] pred = new int[predStart[n]];
+        int[] fill = Arrays.copyOf(predStart, n);
+        for (int i = 0; i < table.length; i++) {
+            if (table[i] != DEAD) {
+                pred[fill[table[i]]++] = i / classCount;
+            }
+        }
+        // the partition: elems ordered by block, block b is elems[bStart[b] .. bEnd[b])
+        int[] elems = new int[n];
+        int[] bStart = new int[n + 1];
+        int[] bEnd = new int[n + 1];
+        for (int i = 0; i < n; i++) {
+            elems[i] = i;
+        }
+        bEnd[0] = n;
+        int blocks = 1;
+        boolean[] touched = new boolean[n];
+        int[] touchedList = new int[n];
+        int touchedCount = 1;
+        touchedList[0] = 0;
+        touched[0] = true;
+        int[] moved = new int[n];
+        int[] movedTo = new int[n];
+        for (int round = 0; round < depth && touchedCount > 0; round++) {
+            int movedCount = 0;
+            for (int k = 0; k < touchedCount; k++) {
+                int b = touchedList[k];
+                touched[b] = false;
+                int from = bStart[b];
+                int to = bEnd[b];
+                if (to - from < 2) {
+                    continue;
+                }
+                Integer[] members = new Integer[to - from];
+                for (int i = from; i < to; i++) {
+                    members[i - from] = elems[i];
+                }
+                final int[] blockNow = block;
+                java.util.Comparator<Integer> bySuccessors = (x, y) -> {
+                    int bx = x * classCount;
+                    int by = y * classCount;
+                    for (int c = 0; c < classCount; c++) {
+                        int tx = table[bx + c];
+                        int ty = table[by + c];
+                        int kx = tx == DEAD ? -1 : blockNow[tx];
+                        int ky = ty == DEAD ? -1 : blockNow[ty];
+                        if (kx != ky) {
+                            return Integer.compare(kx, ky);
+                        }
+                    }
+                    return 0;
+                };
+                Arrays.sort(members, bySuccessors);
+                // the first group keeps the block; each further group gets a new one
+                int groupStart = 0;
+                for (int i = 0; i <= members.length; i++) {
+                    if (i == members.length || (i > 0 && bySuccessors.compare(members[i - 1], members[i]) != 0)) {
+                        if (groupStart > 0) {
+                            int nb = blocks++;
+                            bStart[nb] = from + groupStart;
+                            bEnd[nb] = from + i;
+                            for (int j = groupStart; j < i; j++) {
+                                moved[movedCount] = members[j];
+                                movedTo[movedCount++] = nb;
+                            }
+                        } else {
+                            bEnd[b] = from + i;
+                        }
+                        groupStart = i;
+                    }
+                }
+                for (int i = 0; i < members.length; i++) {
+                    elems[from + i] = members[i];
+                }
+            }
+            touchedCount = 0;
+            for (int i = 0; i < movedCount; i++) {
+                block[moved[i]] = movedTo[i];
+            }
+            for (int i = 0; i < movedCount; i++) {
+                int st = moved[i];
+                for (int k = predStart[st]; k < predStart[st + 1]; k++) {
+                    int pb = block[pred[k]];
+                    if (!touched[pb]) {
+                        touched[pb] = true;
+                        touchedList[touchedCount++] = pb;
+                    }
+                }
+            }
+        }
+        return block;
+    }
+
+    /** The slow twin of {@link #viableClasses}: every state re-examined in every round. */
+    int[] viableClassesByRounds(int depth) {
         int n = stateCount();
         int[] block = new int[n];
         int blocks = 1;
