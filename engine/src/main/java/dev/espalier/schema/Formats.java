@@ -32,10 +32,9 @@ import java.util.concurrent.ConcurrentHashMap;
  * <p>The formats are ABNF: {@code formats.abnf} on the class path next to this class, which imports
  * copies of the library's {@code date-time.abnf} (RFC 3339), {@code ip-address.abnf} and
  * {@code uri.abnf} (RFC 3986) and adds RFC 3339 Appendix A durations, RFC 5321 mailboxes, RFC 1123
- * host names and RFC 9562 UUIDs. Each fragment is the <em>content</em> of a JSON string: the
- * decoded characters between the quotes. Every format's alphabet is printable ASCII without
- * {@code "} and {@code \}, so its content is also its JSON spelling; the schema compiler puts it
- * between quotes as is.
+ * host names, RFC 9562 UUIDs, RFC 6901 JSON pointers, relative JSON pointers and RFC 6570 URI
+ * templates. Each fragment is the <em>content</em> of a JSON string: the decoded characters between
+ * the quotes, which the schema compiler escapes as JSON requires.
  *
  * <p>What the grammars do not check (each is also stated in {@link #gaps(String)}):
  * <ul>
@@ -58,7 +57,7 @@ public final class Formats {
 
     private static final String RESOURCES = "formats/";
     private static final List<String> NAMES = List.of("date-time", "date", "time", "duration", "email", "hostname",
-            "ipv4", "ipv6", "uuid", "uri", "uri-reference");
+            "ipv4", "ipv6", "uuid", "uri", "uri-reference", "json-pointer", "relative-json-pointer", "uri-template");
     private static final Map<String, String> GAPS = Map.of(
             "date-time", "leap seconds only as 23:59:60 with a zero offset, on any date (no table of the leap seconds announced)",
             "time", "leap seconds only as 23:59:60 with a zero offset",

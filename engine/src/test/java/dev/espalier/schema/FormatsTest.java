@@ -54,7 +54,8 @@ class FormatsTest {
     @Test
     void namesAndUnknownFormats() {
         assertEquals(List.of("date-time", "date", "time", "duration", "email", "hostname", "ipv4", "ipv6", "uuid",
-                "uri", "uri-reference"), new ArrayList<>(Formats.names()));
+                "uri", "uri-reference", "json-pointer", "relative-json-pointer", "uri-template"),
+                new ArrayList<>(Formats.names()));
         assertTrue(Formats.content("f", "color").isEmpty());
         assertTrue(Formats.content("f", "Date").isEmpty());
         assertTrue(Formats.automaton("color").isEmpty());
@@ -90,6 +91,31 @@ class FormatsTest {
                         () -> name + " (bytes): " + c.data());
             }
         }
+    }
+
+    /** RFC 6901 section 5 example pointers (from memory) and strings that are not pointers. */
+    @Test
+    void rfc6901Examples() {
+        accepts("json-pointer", "", "/foo", "/foo/0", "/", "/a~1b", "/c%d", "/e^f", "/g|h", "/i\\j", "/k\"l", "/ ",
+                "/m~0n", "/\u00e9t\u00e9/\uD83C\uDF4E", "/\u0000");
+        rejects("json-pointer", "a", "/~", "/~2", "/a~", "#/foo");
+    }
+
+    /** Relative JSON pointers, draft-handrews-relative-json-pointer-01 section 5.1 examples (from memory). */
+    @Test
+    void relativeJsonPointerExamples() {
+        accepts("relative-json-pointer", "0", "1/0", "2/highly/nested/objects", "0#", "1#", "0/objects", "120/foo/bar");
+        rejects("relative-json-pointer", "", "/foo", "01/a", "01#", "0##", "-1/foo", "+1/foo", "#");
+    }
+
+    /** RFC 6570 section 1.2 and 3.2 example templates (from memory) and malformed ones. */
+    @Test
+    void rfc6570Examples() {
+        accepts("uri-template", "", "http://example.com/~{username}/", "{var}", "{+path}/here", "{#x,hello,y}",
+                "{;list*}", "{?keys*}", "{var:3}", "{.who,who}", "{/half,list*}", "X{&x,y,empty}", "{var:9999}",
+                "map?{x,y}", "{%2Fx.y_1}", "caf\u00e9/{a}");
+        rejects("uri-template", "{", "}", "{var", "{var:0}", "{var:10000}", "{ var}", "{$var}", "{var*:3}", "{}",
+                "{a..b}", "http://example.com/dictionary/{term:1}/{term", "a b");
     }
 
     /** RFC 3339 section 5.8 examples (from memory) and section 5.6/5.7 rules. */
