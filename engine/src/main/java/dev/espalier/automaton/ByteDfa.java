@@ -93,6 +93,18 @@ public final class ByteDfa {
         return fromExpr(expr, rules, stateLimit, false);
     }
 
+    /**
+     * As {@link #fromExpr(Expr, Function, int)}, with the most states subset construction may make
+     * before minimisation given: a caller with a cheaper plan B fails faster with a low one.
+     */
+    public static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit, int rawLimit) {
+        if (stateLimit < 1 || rawLimit < stateLimit) {
+            throw new IllegalArgumentException("limits must be positive and the raw limit at least the state limit");
+        }
+        ByteNfa nfa = ExprNfa.of(expr, rules, (int) Math.min(Integer.MAX_VALUE, 2L * rawLimit), stateLimit);
+        return determinize(nfa, rawLimit, stateLimit, false);
+    }
+
     /** As {@link #fromExpr(Expr, Function, int)}, for the language without the empty string. */
     public static ByteDfa fromExprWithoutEmpty(Expr expr, Function<String, Expr> rules, int stateLimit) {
         return fromExpr(expr, rules, stateLimit, true);
@@ -391,18 +403,53 @@ public final class ByteDfa {
             hasEpsilon = true;
         }
 
+        /** Per node, its epsilon closure (itself included), computed on first use. */
+        private int[][] nodeClosure;
+
         /** The epsilon closure of a sorted set of nodes, sorted; {@code mark} is scratch space per node. */
         int[] closure(int[] set, int[] mark, int stamp) {
             if (!hasEpsilon) {
                 return set;
             }
-            int[] out = Arrays.copyOf(set, Math.max(8, set.length * 2));
+            if (nodeClosure == null) {
+                nodeClosure = new int[size()][];
+            }
+            int n = 0;
+            int[] out = new int[Math.max(8, set.length * 2)];
+            for (int node : set) {
+                int[] c = nodeClosure[node];
+                if (c == null) {
+                    c = closureOf(node);
+                    nodeClosure[node] = c;
+                }
+                for (int x : c) {
+                    if (mark[x] != stamp) {
+                        mark[x] = stamp;
+                        if (n == out.length) {
+                            out = Arrays.copyOf(out, n * 2);
+                        }
+                        out[n++] = x;
+                    }
+                }
+            }
+            out = Arrays.copyOf(out, n);
+            Arrays.sort(out);
+            return out;
+        }
+
+        private int[] closureSeen;
+        private int closureStamp;
+
+        private int[] closureOf(int start) {
+            if (closureSeen == null) {
+                closureSeen = new int[size()];
+            }
+            int stamp = ++closureStamp;
+            int[] out = new int[8];
             int n = 0;
             ArrayDeque<Integer> work = new ArrayDeque<>();
-            for (int node : set) {
-                mark[node] = stamp;
-                work.push(node);
-            }
+            closureSeen[start] = stamp;
+            work.push(start);
             while (!work.isEmpty()) {
                 int node = work.pop();
                 if (n == out.length) {
@@ -412,16 +459,14 @@ public final class ByteDfa {
                 int[] e = epsilon.get(node);
                 if (e != null) {
                     for (int to : e) {
-                        if (mark[to] != stamp) {
-                            mark[to] = stamp;
+                        if (closureSeen[to] != stamp) {
+                            closureSeen[to] = stamp;
                             work.push(to);
                         }
                     }
                 }
             }
-            out = Arrays.copyOf(out, n);
-            Arrays.sort(out);
-            return out;
+            return Arrays.copyOf(out, n);
         }
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */

@@ -1,6 +1,8 @@
 package dev.espalier.earley;
 
+import dev.espalier.automaton.AutomatonTooLargeException;
 import dev.espalier.automaton.ByteDfa;
+import dev.espalier.automaton.CharAutomata;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.ExprFold;
 import dev.espalier.grammar.Grammar;
@@ -44,6 +46,15 @@ public final class SplitGrammar {
     public static final int MAX_DEPTH = 1_000;
 
     static final int END = Integer.MIN_VALUE;
+
+    /**
+     * The most states subset construction may reach, before minimisation, for a fragment that has
+     * parts: past it the fragment is lowered into the skeleton part by part. Failed attempts stay
+     * cheap, and the many overlapping fragments of a grammar that lists members in any order do not
+     * each become a large terminal; an automaton written as rules (a length-bounded e-mail address,
+     * about 2,300 states) is nearly deterministic and still fits. The language is the same either way.
+     */
+    public static final int DIVISIBLE_RAW_STATES = 4_000;
 
     final ByteDfa[] terminals;
     final int ntCount;
@@ -368,39 +379,43 @@ public final class SplitGrammar {
                 if (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT) {
                     throw new IllegalArgumentException("repetition bound above " + EarleyGrammar.MAX_REPEAT);
                 }
-                int body = symbolOf(r.body(), depth + 1);
-                int nt = newNt(null);
-                List<Integer> seq = new ArrayList<>();
-                if (body != EPSILON) {
-                    for (int i = 0; i < r.min(); i++) {
-                        seq.add(body);
-                    }
-                    if (r.unbounded()) {
-                        int list = newNt(null);
-                        prods.add(new int[] {list});
-                        prods.add(new int[] {list, list, body});
-                        seq.add(list);
-                    } else if (r.max() > r.min()) {
-                        int prev = -1;
-                        for (int k = 0; k < r.max() - r.min(); k++) {
-                            int opt = newNt(null);
-                            prods.add(new int[] {opt});
-                            prods.add(prev < 0 ? new int[] {opt, body} : new int[] {opt, body, prev});
-                            prev = opt;
-                        }
-                        seq.add(prev);
-                    }
-                }
-                int[] p = new int[seq.size() + 1];
-                p[0] = nt;
-                for (int i = 0; i < seq.size(); i++) {
-                    p[i + 1] = seq.get(i);
-                }
-                prods.add(p);
-                return nt;
+                return repeatSymbol(r, symbolOf(r.body(), depth + 1));
             }
             int nt = newNt(null);
             addAlternatives(nt, e, depth);
+            return nt;
+        }
+
+        /** The skeleton symbol of {@code r} whose body is the symbol {@code body}. */
+        int repeatSymbol(Expr.Repeat r, int body) {
+            int nt = newNt(null);
+            List<Integer> seq = new ArrayList<>();
+            if (body != EPSILON) {
+                for (int i = 0; i < r.min(); i++) {
+                    seq.add(body);
+                }
+                if (r.unbounded()) {
+                    int list = newNt(null);
+                    prods.add(new int[] {list});
+                    prods.add(new int[] {list, list, body});
+                    seq.add(list);
+                } else if (r.max() > r.min()) {
+                    int prev = -1;
+                    for (int k = 0; k < r.max() - r.min(); k++) {
+                        int opt = newNt(null);
+                        prods.add(new int[] {opt});
+                        prods.add(prev < 0 ? new int[] {opt, body} : new int[] {opt, body, prev});
+                        prev = opt;
+                    }
+                    seq.add(prev);
+                }
+            }
+            int[] p = new int[seq.size() + 1];
+            p[0] = nt;
+            for (int i = 0; i < seq.size(); i++) {
+                p[i + 1] = seq.get(i);
+            }
+            prods.add(p);
             return nt;
         }
 
@@ -411,10 +426,24 @@ public final class SplitGrammar {
             if (known != null) {
                 return known;
             }
-            ByteDfa all = ByteDfa.fromExpr(fragment, rules, stateLimit);
-            boolean nullable = !all.isEmpty() && all.accepts(all.start());
+            ByteDfa dfa;
+            boolean nullable;
+            boolean divisible = divisible(fragment) && !(fragment instanceof Expr.Repeat r
+                    && (r.min() > EarleyGrammar.MAX_REPEAT || r.max() > EarleyGrammar.MAX_REPEAT));
+            int raw = divisible ? DIVISIBLE_RAW_STATES : CharAutomata.NFA_FACTOR * stateLimit;
+            try {
+                ByteDfa all = ByteDfa.fromExpr(fragment, rules, Math.min(stateLimit, raw), raw);
+                nullable = !all.isEmpty() && all.accepts(all.start());
+                dfa = nullable ? ByteDfa.fromExprWithoutEmpty(fragment, rules, stateLimit) : all;
+            } catch (AutomatonTooLargeException e) {
+                if (!divisible) {
+                    throw e;
+                }
+                int symbol = structuralSymbol(fragment);
+                lexSymbol.put(key, symbol);
+                return symbol;
+            }
             int symbol;
-            ByteDfa dfa = nullable ? ByteDfa.fromExprWithoutEmpty(fragment, rules, stateLimit) : all;
             if (dfa.isEmpty()) {
                 symbol = nullable ? EPSILON : newNt("(empty)"); // a nonterminal with no production: unproductive
             } else {
@@ -431,6 +460,72 @@ public final class SplitGrammar {
             }
             lexSymbol.put(key, symbol);
             return symbol;
+        }
+
+        /** Whether a fragment has parts that can become terminals of their own. */
+        static boolean divisible(Expr fragment) {
+            return fragment instanceof Expr.Seq || fragment instanceof Expr.Choice
+                    || fragment instanceof Expr.Repeat || fragment instanceof Expr.Ref;
+        }
+
+        /**
+         * A fragment too large for one automaton, lowered one level into the skeleton: its parts become
+         * terminals of their own (and are split again if they too are too large). The language is
+         * unchanged; the parser does more of the work.
+         */
+        int structuralSymbol(Expr fragment) {
+            if (fragment instanceof Expr.Ref r) {
+                int nt = newNt(r.name());
+                Expr body = rules.apply(r.name());
+                if (body == null) {
+                    throw new IllegalArgumentException("undefined rule " + r.name());
+                }
+                prods.add(new int[] {nt, symbolOrNothing(body)});
+                return nt;
+            }
+            if (fragment instanceof Expr.Repeat r) {
+                return repeatSymbol(r, partSymbol(r.body()));
+            }
+            int nt = newNt(null);
+            if (fragment instanceof Expr.Choice c) {
+                for (Expr o : c.options()) {
+                    prods.add(production(nt, List.of(partSymbol(o))));
+                }
+            } else {
+                List<Integer> parts = new ArrayList<>();
+                for (Expr item : ((Expr.Seq) fragment).items()) {
+                    parts.add(partSymbol(item));
+                }
+                prods.add(production(nt, parts));
+            }
+            return nt;
+        }
+
+        /** The symbol of a part of a fragment found too large: a terminal if it fits, else split again. */
+        private int partSymbol(Expr part) {
+            return lexicalSymbol(part);
+        }
+
+        private int symbolOrNothing(Expr body) {
+            int s = partSymbol(body);
+            if (s != EPSILON) {
+                return s;
+            }
+            int nt = newNt(null);
+            prods.add(new int[] {nt});
+            return nt;
+        }
+
+        private static int[] production(int nt, List<Integer> symbols) {
+            int[] p = new int[symbols.size() + 1];
+            p[0] = nt;
+            int k = 1;
+            for (int s : symbols) {
+                if (s != EPSILON) {
+                    p[k++] = s;
+                }
+            }
+            return Arrays.copyOf(p, k);
         }
 
         /** Rules from which recursion is reachable (the skeleton), by case-folded name. */

@@ -20,8 +20,9 @@ import static org.junit.jupiter.api.Assertions.assertTimeoutPreemptively;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 /**
- * Grammars beyond the fast path's limits: a lexical layer too large for automata falls back to the
- * byte-level parser with the same masks; a chart over its item limit stops with a clear error and
+ * Grammars beyond the fast path's limits: a lexical layer too large for one automaton is split into
+ * smaller terminals, and an indivisible piece over the limit falls back to the byte-level parser, both
+ * with the same masks; a chart over its item limit stops with a clear error and
  * leaves the cursor where it was; a highly ambiguous grammar keeps exact masks. Time-outs only guard
  * against hangs.
  */
@@ -42,20 +43,36 @@ class GrammarLimitsTest {
     }
 
     @Test
-    void explodingLexicalLayerFallsBackToTheByteLevelParserWithTheSameMasks() {
+    void explodingLexicalLayerIsSplitIntoSmallerTerminalsWithTheSameMasks() {
         // the 11th symbol from the end is "a": a minimal DFA needs 2^11 states (common practice: the
         // textbook example of subset-construction blow-up), over a state limit of 1,000
         Grammar g = grammar("list = \"[\" [ item *( \",\" item ) ] \"]\" / \"(\" list \")\"\n"
                 + "item = *( \"a\" / \"b\" ) \"a\" 10( \"a\" / \"b\" )\n");
-        Constraint fallback = assertTimeoutPreemptively(Duration.ofSeconds(60),
+        Constraint lowered = assertTimeoutPreemptively(Duration.ofSeconds(60),
                 () -> Constraint.grammar(g, CL100K, MaskSettings.defaults().withStateLimit(1_000)));
+        assertTrue(lowered.describe().startsWith("Earley skeleton"), lowered.describe());
+        Constraint split = Constraint.grammar(g, CL100K);
+        assertTrue(split.describe().startsWith("Earley skeleton"), split.describe());
+        agreeWithReference(g, lowered, split, "", "(", "([", "[ab", "[aaaaaaaaaaa", "[baaaaaaaaaab,", "(([");
+    }
+
+    @Test
+    void anIndivisiblePieceOverTheLimitFallsBackToTheByteLevelParserWithTheSameMasks() {
+        Grammar g = grammar("list = \"[\" [ tree *( \",\" tree ) ] \"]\" / \"(\" list \")\"\n"
+                + "tree = %s\"Amberglow on RS-9\" / %s\"Copperbell on RS-12\"\n");
+        Constraint fallback = assertTimeoutPreemptively(Duration.ofSeconds(60),
+                () -> Constraint.grammar(g, CL100K, MaskSettings.defaults().withStateLimit(8)));
         assertTrue(fallback.describe().startsWith("Earley parser over bytes"), fallback.describe());
         Constraint split = Constraint.grammar(g, CL100K);
         assertTrue(split.describe().startsWith("Earley skeleton"), split.describe());
+        agreeWithReference(g, fallback, split, "", "(", "([", "[Amber", "[Amberglow on RS-9,", "((");
+    }
+
+    private static void agreeWithReference(Grammar g, Constraint first, Constraint second, String... prefixes) {
         ReferenceMasks reference = new ReferenceMasks(g, CL100K);
-        for (String prefix : new String[] {"", "(", "([", "[ab", "[aaaaaaaaaaa", "[baaaaaaaaaab,", "((["}) {
-            Cursor a = fallback.start();
-            Cursor b = split.start();
+        for (String prefix : prefixes) {
+            Cursor a = first.start();
+            Cursor b = second.start();
             a.feedText(prefix);
             b.feedText(prefix);
             long[] ma = mask(a);
