@@ -15,6 +15,19 @@ final class DfaConstraint implements Constraint {
     private final int words;
     /** States with the same viable byte strings up to the longest token share one mask. */
     private final int[] maskClass;
+    /**
+     * With many more mask classes than classes up to {@link #SHORT} bytes (a string with a length
+     * bound: each count is its own class, though all counts far from the bound agree on short
+     * tokens), a mask is computed in two parts: the tokens of at most {@link #SHORT} bytes from a
+     * mask cached per short class, the longer tokens one by one. Null otherwise.
+     */
+    private final int[] shortClass;
+    private final MaskCache shortCache;
+    private final int[] longIds;
+    private final byte[][] longBytes;
+
+    /** Token length (bytes) up to which the two-part computation caches masks per short class. */
+    static final int SHORT = 12;
 
     DfaConstraint(ByteDfa dfa, Vocabulary vocabulary, MaskSettings settings) {
         if (dfa.isEmpty()) {
@@ -25,7 +38,45 @@ final class DfaConstraint implements Constraint {
         this.trie = vocabulary.trie();
         this.words = vocabulary.maskWords();
         this.maskClass = dfa.viableClasses(trie.maxDepth());
-        this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes());
+        int[] shortClasses = trie.maxDepth() > SHORT ? dfa.viableClasses(SHORT) : null;
+        if (shortClasses != null && 2 * (max(shortClasses) + 1) < max(maskClass) + 1) {
+            this.shortClass = shortClasses;
+            this.shortCache = new MaskCache(max(shortClasses) + 1, settings.cacheBudgetBytes() / 2);
+            this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes() / 2);
+            int count = 0;
+            for (int id = 0; id < vocabulary.size(); id++) {
+                if (inTrie(id) && vocabulary.length(id) > SHORT) {
+                    count++;
+                }
+            }
+            this.longIds = new int[count];
+            this.longBytes = new byte[count][];
+            int k = 0;
+            for (int id = 0; id < vocabulary.size(); id++) {
+                if (inTrie(id) && vocabulary.length(id) > SHORT) {
+                    longIds[k] = id;
+                    longBytes[k++] = vocabulary.bytes(id);
+                }
+            }
+        } else {
+            this.shortClass = null;
+            this.shortCache = null;
+            this.longIds = null;
+            this.longBytes = null;
+            this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes());
+        }
+    }
+
+    private boolean inTrie(int id) {
+        return vocabulary.has(id) && !vocabulary.isSpecial(id);
+    }
+
+    private static int max(int[] a) {
+        int m = -1;
+        for (int x : a) {
+            m = Math.max(m, x);
+        }
+        return m;
     }
 
 
@@ -49,7 +100,7 @@ final class DfaConstraint implements Constraint {
 
     @Override
     public long cacheBytes() {
-        return cache.bytes();
+        return cache.bytes() + (shortCache == null ? 0 : shortCache.bytes());
     }
 
     @Override
@@ -86,10 +137,46 @@ final class DfaConstraint implements Constraint {
         }
     }
 
-    /** Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte. */
+    /**
+     * Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte; in
+     * two parts when {@link #shortClass} is set (short tokens from their cached mask, long tokens run
+     * one by one). {@link #computeByWalk} is the one-walk twin.
+     */
     long[] compute(int state) {
+        if (shortClass == null) {
+            return computeByWalk(state);
+        }
+        int key = shortClass[state];
+        long[] shortMask = shortCache.get(key);
+        if (shortMask == null) {
+            shortMask = new long[words];
+            trie.collect(dfa::step, state, shortMask, SHORT);
+            shortMask = shortCache.put(key, shortMask);
+        }
+        long[] m = shortMask.clone();
+        for (int k = 0; k < longIds.length; k++) {
+            byte[] b = longBytes[k];
+            int s = state;
+            for (int i = 0; i < b.length && s != ByteDfa.DEAD; i++) {
+                s = dfa.step(s, b[i]);
+            }
+            if (s != ByteDfa.DEAD) {
+                int id = longIds[k];
+                m[id >>> 6] |= 1L << id;
+            }
+        }
+        return m;
+    }
+
+    /** The mask of {@code state} by one walk of the whole trie. */
+    long[] computeByWalk(int state) {
         long[] m = new long[words];
         trie.collect(dfa::step, state, m);
         return m;
+    }
+
+    /** Whether masks are computed in two parts (see {@link #shortClass}). */
+    boolean twoPart() {
+        return shortClass != null;
     }
 }

@@ -148,6 +148,40 @@ public final class VocabularyTrie {
         }
     }
 
+    /**
+     * As {@link #collect(Stepper, int, long[])}, for the tokens of at most {@code maxDepth} bytes
+     * only: deeper subtrees are not entered.
+     */
+    public void collect(Stepper stepper, int start, long[] mask, int maxDepth) {
+        int[] at = new int[this.maxDepth + 1];
+        at[0] = start;
+        final int[] packed = this.packed;
+        final int[] skip = this.skip;
+        final int[] tokenStart = this.tokenStart;
+        final int[] tokenIds = this.tokenIds;
+        int n = packed.length;
+        int i = 1;
+        while (i < n) {
+            int p = packed[i];
+            int d = p >>> 8;
+            if (d > maxDepth) {
+                i = skip[i];
+                continue;
+            }
+            int next = stepper.step(at[d - 1], p & 0xFF);
+            if (next < 0) {
+                i = skip[i];
+                continue;
+            }
+            at[d] = next;
+            for (int k = tokenStart[i], end = tokenStart[i + 1]; k < end; k++) {
+                int id = tokenIds[k];
+                mask[id >>> 6] |= 1L << id;
+            }
+            i++;
+        }
+    }
+
     /** Number of nodes, the root included. */
     public int nodeCount() {
         return label.length;

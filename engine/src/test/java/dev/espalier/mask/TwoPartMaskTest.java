@@ -1,0 +1,68 @@
+package dev.espalier.mask;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.espalier.automaton.ByteDfa;
+import dev.espalier.grammar.Expr;
+import dev.espalier.grammar.Grammar;
+import dev.espalier.grammar.Rule;
+import dev.espalier.regex.RegexSyntax;
+import dev.espalier.schema.JsonSchemas;
+import dev.espalier.schema.SchemaOptions;
+import dev.espalier.testing.TestVocabularies;
+import dev.espalier.vocab.Vocabulary;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Masks computed in two parts (short tokens from a mask cached per short class, long tokens run one
+ * by one) against one walk of the whole vocabulary trie, for every state of automata with length
+ * bounds: the corpus schemas with a bounded free text or a bounded e-mail address, and patterns, on
+ * cl100k.
+ */
+class TwoPartMaskTest {
+
+    private static final Vocabulary CL100K = TestVocabularies.builtin("cl100k");
+
+    private static int compare(String where, DfaConstraint c) {
+        for (int s = 0; s < c.dfa.stateCount(); s++) {
+            int state = s;
+            assertArrayEquals(c.computeByWalk(state), c.compute(state), () -> where + ": state " + state);
+        }
+        return c.dfa.stateCount();
+    }
+
+    @Test
+    void twoPartMasksEqualOneWalkInEveryState() throws IOException {
+        List<DfaConstraint> constraints = new ArrayList<>();
+        List<String> names = new ArrayList<>();
+        for (String schema : List.of("pruning-plan", "inspection-report", "customer-contact", "label-print-job")) {
+            Grammar g = JsonSchemas.compile(Files.readString(Path.of("..", "grammars", "schemas", schema + ".schema.json"),
+                    StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
+            ByteDfa d = ByteDfa.fromExpr(Expr.ref(g.start()), n -> g.rule(n).map(Rule::body).orElse(null), 10_000);
+            constraints.add(new DfaConstraint(d, CL100K, MaskSettings.defaults()));
+            names.add(schema);
+        }
+        for (String pattern : List.of("[a-z ]{0,40}", "\"([^\"\\\\]|\\\\.){2,30}\"", "(ab|c){0,25}x")) {
+            ByteDfa d = ByteDfa.fromExpr(RegexSyntax.parse(pattern), null, 10_000);
+            constraints.add(new DfaConstraint(d, CL100K, MaskSettings.defaults()));
+            names.add(pattern);
+        }
+        int twoPart = 0;
+        int states = 0;
+        for (int i = 0; i < constraints.size(); i++) {
+            if (constraints.get(i).twoPart()) {
+                twoPart++;
+                states += compare(names.get(i), constraints.get(i));
+            }
+        }
+        assertTrue(twoPart >= 4, "constraints computing masks in two parts: " + twoPart);
+        System.out.println("two-part masks vs one walk: " + twoPart + " automata, " + states + " states, 0 differences");
+    }
+}
