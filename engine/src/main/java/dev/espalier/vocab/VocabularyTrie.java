@@ -123,29 +123,7 @@ public final class VocabularyTrie {
      * dead byte.
      */
     public void collect(Stepper stepper, int start, long[] mask) {
-        int[] at = new int[maxDepth + 1];
-        at[0] = start;
-        final int[] packed = this.packed;
-        final int[] skip = this.skip;
-        final int[] tokenStart = this.tokenStart;
-        final int[] tokenIds = this.tokenIds;
-        int n = packed.length;
-        int i = 1;
-        while (i < n) {
-            int p = packed[i];
-            int d = p >>> 8;
-            int next = stepper.step(at[d - 1], p & 0xFF);
-            if (next < 0) {
-                i = skip[i];
-                continue;
-            }
-            at[d] = next;
-            for (int k = tokenStart[i], end = tokenStart[i + 1]; k < end; k++) {
-                int id = tokenIds[k];
-                mask[id >>> 6] |= 1L << id;
-            }
-            i++;
-        }
+        collect(stepper, start, mask, maxDepth);
     }
 
     /**
