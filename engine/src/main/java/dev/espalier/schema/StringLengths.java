@@ -117,7 +117,7 @@ final class StringLengths {
     private static Automaton acyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
             int min, int max, int stateLimit) {
         int n = states.size();
-        long size = (long) n * (max + 1) * 2;
+        long size = (long) n * ((long) max + 1) * 2;
         if (size > PRODUCT_LIMIT) {
             throw new AutomatonTooLargeException(stateLimit,
                     "a string length bound of " + max + " over an automaton of " + n + " states exceeds the product limit");

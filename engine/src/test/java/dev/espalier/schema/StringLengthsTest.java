@@ -69,5 +69,8 @@ class StringLengthsTest {
     void oversizedProductsStopWithTheLimit() {
         Automaton a = Formats.automaton("uri").orElseThrow();
         assertThrows(AutomatonTooLargeException.class, () -> StringLengths.bounded(a, 0, 254, 1_000));
+        Automaton letters = new RegExp("[a-c]*x").toAutomaton();
+        assertThrows(AutomatonTooLargeException.class, () -> StringLengths.bounded(letters, 0, Integer.MAX_VALUE, LIMIT),
+                "the largest maxLength is refused with the limit, not an arithmetic overflow");
     }
 }
