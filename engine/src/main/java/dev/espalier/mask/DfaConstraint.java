@@ -29,6 +29,9 @@ final class DfaConstraint implements Constraint {
     /** Token length (bytes) up to which the two-part computation caches masks per short class. */
     static final int SHORT = 12;
 
+    /** Fewest mask classes for which the two-part computation is considered. */
+    static final int TWO_PART_CLASSES = 256;
+
     DfaConstraint(ByteDfa dfa, Vocabulary vocabulary, MaskSettings settings) {
         if (dfa.isEmpty()) {
             throw new IllegalArgumentException("the language is empty: no output can satisfy it");
@@ -38,7 +41,9 @@ final class DfaConstraint implements Constraint {
         this.trie = vocabulary.trie();
         this.words = vocabulary.maskWords();
         this.maskClass = dfa.viableClasses(trie.maxDepth());
-        int[] shortClasses = trie.maxDepth() > SHORT ? dfa.viableClasses(SHORT) : null;
+        // few mask classes: one walk each is cheap, and the short classes are not worth computing
+        int[] shortClasses = trie.maxDepth() > SHORT && max(maskClass) + 1 > TWO_PART_CLASSES
+                ? dfa.viableClasses(SHORT) : null;
         if (shortClasses != null && 2 * (max(shortClasses) + 1) < max(maskClass) + 1) {
             this.shortClass = shortClasses;
             this.shortCache = new MaskCache(max(shortClasses) + 1, settings.cacheBudgetBytes() / 2);
