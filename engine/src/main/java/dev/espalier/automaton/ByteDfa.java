@@ -90,7 +90,8 @@ public final class ByteDfa {
      * @throws IllegalArgumentException for a reference to an undefined rule
      */
     public static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit) {
-        return fromExpr(expr, rules, stateLimit, false);
+        return fromExpr(expr, rules, stateLimit,
+                (int) Math.min(Integer.MAX_VALUE, (long) stateLimit * CharAutomata.NFA_FACTOR));
     }
 
     /**
@@ -102,21 +103,59 @@ public final class ByteDfa {
             throw new IllegalArgumentException("limits must be positive and the raw limit at least the state limit");
         }
         ByteNfa nfa = ExprNfa.of(expr, rules, (int) Math.min(Integer.MAX_VALUE, 2L * rawLimit), stateLimit);
-        return determinize(nfa, rawLimit, stateLimit, false);
+        return determinize(nfa, rawLimit, stateLimit);
     }
 
-    /** As {@link #fromExpr(Expr, Function, int)}, for the language without the empty string. */
-    public static ByteDfa fromExprWithoutEmpty(Expr expr, Function<String, Expr> rules, int stateLimit) {
-        return fromExpr(expr, rules, stateLimit, true);
-    }
-
-    private static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit, boolean withoutEmpty) {
-        if (stateLimit < 1) {
-            throw new IllegalArgumentException("the state limit must be positive: " + stateLimit);
+    /**
+     * This automaton's language without the empty string: a non-accepting copy of the start state
+     * becomes the start (no step leads back to it), then the reachable part is minimised again.
+     */
+    public ByteDfa withoutEmptyString() {
+        if (start == DEAD || !accepting[start]) {
+            return this;
         }
-        long raw = Math.min(Integer.MAX_VALUE, (long) stateLimit * CharAutomata.NFA_FACTOR);
-        ByteNfa nfa = ExprNfa.of(expr, rules, (int) Math.min(Integer.MAX_VALUE, 2 * raw), stateLimit);
-        return determinize(nfa, (int) raw, stateLimit, withoutEmpty);
+        // states reachable from the new start: the old start drops out when no step returns to it
+        int n = stateCount();
+        int[] id = new int[n + 1];
+        Arrays.fill(id, DEAD);
+        List<Integer> order = new ArrayList<>();
+        id[0] = 0;
+        order.add(0);
+        for (int i = 0; i < order.size(); i++) {
+            int[] row = shiftedRow(order.get(i) == 0 ? start : order.get(i) - 1);
+            for (int t : row) {
+                if (t != DEAD && id[t] == DEAD) {
+                    id[t] = order.size();
+                    order.add(t);
+                }
+            }
+        }
+        List<int[]> rows = new ArrayList<>(order.size());
+        boolean[] accept = new boolean[order.size()];
+        for (int i = 0; i < order.size(); i++) {
+            int old = order.get(i);
+            int[] row = shiftedRow(old == 0 ? start : old - 1);
+            for (int c = 0; c < row.length; c++) {
+                row[c] = row[c] == DEAD ? DEAD : id[row[c]];
+            }
+            rows.add(row);
+            accept[i] = old != 0 && accepting[old - 1];
+        }
+        int[] inputClass = new int[256];
+        for (int b = 0; b < 256; b++) {
+            inputClass[b] = classOf(b);
+        }
+        return minimize(rows, accept, inputClass);
+    }
+
+    /** State {@code s}'s row with every target one higher (room for a new state 0). */
+    private int[] shiftedRow(int s) {
+        int[] row = new int[classCount];
+        for (int c = 0; c < classCount; c++) {
+            int t = table[s * classCount + c];
+            row[c] = t == DEAD ? DEAD : t + 1;
+        }
+        return row;
     }
 
     /** The start state, or {@link #DEAD} when the language is empty. */
@@ -536,19 +575,16 @@ public final class ByteDfa {
 
     /** Subset construction with a state limit, then trimming and minimisation. */
     static ByteDfa determinize(ByteNfa nfa, int stateLimit) {
-        return determinize(nfa, stateLimit, stateLimit, false);
+        return determinize(nfa, stateLimit, stateLimit);
     }
 
     /**
      * Subset construction (with epsilon closure) then trimming and minimisation.
      *
-     * @param rawLimit     the most states subset construction may make before minimisation
-     * @param stateLimit   the most states the minimal automaton may have
-     * @param withoutEmpty whether to drop the empty string from the language: the start subset is
-     *                     then not accepting and never re-entered (a later equal subset gets its own
-     *                     state)
+     * @param rawLimit   the most states subset construction may make before minimisation
+     * @param stateLimit the most states the minimal automaton may have
      */
-    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit, boolean withoutEmpty) {
+    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit) {
         // byte classes: bytes no edge boundary separates behave alike in every subset
         boolean[] cut = new boolean[257];
         cut[0] = true;
@@ -576,9 +612,7 @@ public final class ByteDfa {
         List<int[]> sets = new ArrayList<>();
         List<int[]> rows = new ArrayList<>();
         int[] startSet = nfa.closure(new int[] {nfa.start}, mark, stamp++);
-        if (!withoutEmpty) {
-            index.put(new IntSet(startSet), 0);
-        }
+        index.put(new IntSet(startSet), 0);
         sets.add(startSet);
         ArrayDeque<Integer> work = new ArrayDeque<>();
         work.add(0);
@@ -638,7 +672,7 @@ public final class ByteDfa {
         }
         int n = sets.size();
         boolean[] accept = new boolean[n];
-        for (int d = withoutEmpty ? 1 : 0; d < n; d++) {
+        for (int d = 0; d < n; d++) {
             for (int node : sets.get(d)) {
                 if (nfa.accept[node]) {
                     accept[d] = true;

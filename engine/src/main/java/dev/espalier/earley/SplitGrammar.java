@@ -434,7 +434,7 @@ public final class SplitGrammar {
             try {
                 ByteDfa all = ByteDfa.fromExpr(fragment, rules, Math.min(stateLimit, raw), raw);
                 nullable = !all.isEmpty() && all.accepts(all.start());
-                dfa = nullable ? ByteDfa.fromExprWithoutEmpty(fragment, rules, stateLimit) : all;
+                dfa = all.withoutEmptyString();
             } catch (AutomatonTooLargeException e) {
                 if (!divisible) {
                     throw e;
@@ -484,30 +484,25 @@ public final class SplitGrammar {
                 return nt;
             }
             if (fragment instanceof Expr.Repeat r) {
-                return repeatSymbol(r, partSymbol(r.body()));
+                return repeatSymbol(r, lexicalSymbol(r.body()));
             }
             int nt = newNt(null);
             if (fragment instanceof Expr.Choice c) {
                 for (Expr o : c.options()) {
-                    prods.add(production(nt, List.of(partSymbol(o))));
+                    prods.add(production(nt, List.of(lexicalSymbol(o))));
                 }
             } else {
                 List<Integer> parts = new ArrayList<>();
                 for (Expr item : ((Expr.Seq) fragment).items()) {
-                    parts.add(partSymbol(item));
+                    parts.add(lexicalSymbol(item));
                 }
                 prods.add(production(nt, parts));
             }
             return nt;
         }
 
-        /** The symbol of a part of a fragment found too large: a terminal if it fits, else split again. */
-        private int partSymbol(Expr part) {
-            return lexicalSymbol(part);
-        }
-
         private int symbolOrNothing(Expr body) {
-            int s = partSymbol(body);
+            int s = lexicalSymbol(body);
             if (s != EPSILON) {
                 return s;
             }

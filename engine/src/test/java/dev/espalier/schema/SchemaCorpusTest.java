@@ -302,11 +302,6 @@ class SchemaCorpusTest {
         private static final Schema EMAIL = REGISTRY.getSchema("{\"type\":\"string\",\"format\":\"email\"}", InputFormat.JSON);
         private static final Schema DATE_TIME = REGISTRY.getSchema("{\"type\":\"string\",\"format\":\"date-time\"}", InputFormat.JSON);
 
-        /** The validator's errors on an instance (JSON text); empty when it is valid. */
-        List<String> errors(String instanceJson) {
-            return validate(instanceJson).stream().map(Object::toString).toList();
-        }
-
         /** The validator's errors on an instance (JSON text), as it reports them. */
         List<com.networknt.schema.Error> validate(String instanceJson) {
             return validate(schema, instanceJson);
