@@ -237,19 +237,37 @@ public final class ByteDfa {
      * both", stopped after {@code depth} rounds or when stable. States of one block allow exactly
      * the same tokens of at most {@code depth} bytes (acceptance aside).
      *
-     * <p>Each round only re-examines the blocks holding a predecessor of a state that changed block in
-     * the round before: the others cannot split. {@link #viableClassesByRounds} is the slow twin that
-     * re-examines every state in every round.
+     * <p>Each round re-examines only the states with a successor that changed block in the round
+     * before: the others keep the signature they shared when their block was formed, so they stay
+     * together, and a re-examined state differs from them on the class leading to the moved
+     * successor. {@link #viableClassesByRounds} is the slow twin that re-examines every state in
+     * every round.
      *
      * @return the block of each state, numbered from 0
      */
     public int[] viableClasses(int depth) {
-        int n = stateCount();
-        int[] block = new int[n];
-        if (n == 0) {
-            return block;
+        return viableClasses(new int[] {depth})[0];
+    }
+
+    /**
+     * As {@link #viableClasses(int)} for several depths at once, in one run of the rounds: the
+     * partition at each depth is the one after that many rounds.
+     *
+     * @param depths ascending depths
+     * @return per depth, the block of each state
+     */
+    public int[][] viableClasses(int[] depths) {
+        for (int i = 1; i < depths.length; i++) {
+            if (depths[i] < depths[i - 1]) {
+                throw new IllegalArgumentException("depths must ascend");
+            }
         }
-        // predecessors of each state (one entry per distinct predecessor and class)
+        int n = stateCount();
+        int[][] out = new int[depths.length][];
+        int depth = depths.length == 0 ? 0 : Math.max(0, depths[depths.length - 1]);
+        int[] block = new int[n];
+        int next = 0;
+        // predecessors of each state (one entry per class leading to it)
         int[] predStart = new int[n + 1];
         for (int i = 0; i < table.length; i++) {
             if (table[i] != DEAD) {
@@ -266,90 +284,121 @@ public final class ByteDfa {
                 pred[fill[table[i]]++] = i / classCount;
             }
         }
-        // the partition: elems ordered by block, block b is elems[bStart[b] .. bEnd[b])
-        int[] elems = new int[n];
-        int[] bStart = new int[n + 1];
-        int[] bEnd = new int[n + 1];
-        for (int i = 0; i < n; i++) {
-            elems[i] = i;
-        }
-        bEnd[0] = n;
+        int[] blockSize = new int[n + 1];
+        blockSize[0] = n;
         int blocks = 1;
-        boolean[] touched = new boolean[n];
-        int[] touchedList = new int[n];
-        int touchedCount = 1;
-        touchedList[0] = 0;
-        touched[0] = true;
+        int[] seen = new int[n];
+        int[] touchedState = new int[n];
         int[] moved = new int[n];
         int[] movedTo = new int[n];
-        for (int round = 0; round < depth && touchedCount > 0; round++) {
-            int movedCount = 0;
-            for (int k = 0; k < touchedCount; k++) {
-                int b = touchedList[k];
-                touched[b] = false;
-                int from = bStart[b];
-                int to = bEnd[b];
-                if (to - from < 2) {
-                    continue;
-                }
-                Integer[] members = new Integer[to - from];
-                for (int i = from; i < to; i++) {
-                    members[i - from] = elems[i];
-                }
-                final int[] blockNow = block;
-                java.util.Comparator<Integer> bySuccessors = (x, y) -> {
-                    int bx = x * classCount;
-                    int by = y * classCount;
-                    for (int c = 0; c < classCount; c++) {
-                        int tx = table[bx + c];
-                        int ty = table[by + c];
-                        int kx = tx == DEAD ? -1 : blockNow[tx];
-                        int ky = ty == DEAD ? -1 : blockNow[ty];
-                        if (kx != ky) {
-                            return Integer.compare(kx, ky);
-                        }
-                    }
-                    return 0;
-                };
-                Arrays.sort(members, bySuccessors);
-                // the first group keeps the block; each further group gets a new one
-                int groupStart = 0;
-                for (int i = 0; i <= members.length; i++) {
-                    if (i == members.length || (i > 0 && bySuccessors.compare(members[i - 1], members[i]) != 0)) {
-                        if (groupStart > 0) {
-                            int nb = blocks++;
-                            bStart[nb] = from + groupStart;
-                            bEnd[nb] = from + i;
-                            for (int j = groupStart; j < i; j++) {
-                                moved[movedCount] = members[j];
-                                movedTo[movedCount++] = nb;
-                            }
-                        } else {
-                            bEnd[b] = from + i;
-                        }
-                        groupStart = i;
-                    }
-                }
-                for (int i = 0; i < members.length; i++) {
-                    elems[from + i] = members[i];
+        // round 0 re-examines every state: all start in one block
+        int touchedCount = n;
+        for (int i = 0; i < n; i++) {
+            touchedState[i] = i;
+        }
+        final int[] blockNow = block;
+        // successors' blocks, compared in full; the sort goes by block, then a hash of them
+        java.util.Comparator<Integer> bySuccessors = (x, y) -> {
+            int bx = x * classCount;
+            int by = y * classCount;
+            for (int c = 0; c < classCount; c++) {
+                int tx = table[bx + c];
+                int ty = table[by + c];
+                int kx = tx == DEAD ? -1 : blockNow[tx];
+                int ky = ty == DEAD ? -1 : blockNow[ty];
+                if (kx != ky) {
+                    return Integer.compare(kx, ky);
                 }
             }
-            touchedCount = 0;
+            return 0;
+        };
+        long[] key = new long[n];
+        java.util.Comparator<Integer> byKey = (x, y) -> Long.compare(key[x], key[y]);
+        java.util.Comparator<Integer> byBlockThenSuccessors = (x, y) -> {
+            int c = Long.compare(key[x], key[y]);
+            return c != 0 ? c : bySuccessors.compare(x, y);
+        };
+        for (int round = 0; round < depth && touchedCount > 0; round++) {
+            while (next < depths.length && depths[next] <= round) {
+                out[next++] = block.clone();
+            }
+            Integer[] members = new Integer[touchedCount];
+            for (int i = 0; i < touchedCount; i++) {
+                int st = touchedState[i];
+                members[i] = st;
+                int h = 1;
+                for (int c = 0, row = st * classCount; c < classCount; c++) {
+                    int t = table[row + c];
+                    h = 31 * h + (t == DEAD ? -1 : block[t]);
+                }
+                key[st] = (long) block[st] << 32 | (h & 0xFFFFFFFFL);
+            }
+            Arrays.sort(members, byKey);
+            // equal keys with different successors (a hash collision) are ordered in full
+            for (int i = 0; i < members.length; ) {
+                int j = i + 1;
+                while (j < members.length && key[members[j]] == key[members[i]]) {
+                    j++;
+                }
+                for (int k = i + 1; k < j; k++) {
+                    if (bySuccessors.compare(members[i], members[k]) != 0) {
+                        Arrays.sort(members, i, j, bySuccessors);
+                        break;
+                    }
+                }
+                i = j;
+            }
+            int movedCount = 0;
+            // per block: its touched states in runs of equal signature; when every state of the block
+            // was touched, the first run keeps the block, otherwise the untouched ones do
+            for (int i = 0; i < members.length; ) {
+                int b = block[members[i]];
+                int j = i;
+                while (j < members.length && block[members[j]] == b) {
+                    j++;
+                }
+                boolean firstKeeps = j - i == blockSize[b];
+                int runStart = i;
+                for (int k = i + 1; k <= j; k++) {
+                    if (k == j || byBlockThenSuccessors.compare(members[k - 1], members[k]) != 0) {
+                        if (runStart == i && firstKeeps) {
+                            if (k == j) {
+                                break; // one run holding the whole block: no split
+                            }
+                        } else {
+                            int nb = blocks++;
+                            for (int x = runStart; x < k; x++) {
+                                moved[movedCount] = members[x];
+                                movedTo[movedCount++] = nb;
+                            }
+                            blockSize[nb] = k - runStart;
+                            blockSize[b] -= k - runStart;
+                        }
+                        runStart = k;
+                    }
+                }
+                i = j;
+            }
             for (int i = 0; i < movedCount; i++) {
                 block[moved[i]] = movedTo[i];
             }
+            touchedCount = 0;
+            int stamp = round + 1;
             for (int i = 0; i < movedCount; i++) {
                 int st = moved[i];
                 for (int k = predStart[st]; k < predStart[st + 1]; k++) {
-                    int pb = block[pred[k]];
-                    if (!touched[pb]) {
-                        touched[pb] = true;
-                        touchedList[touchedCount++] = pb;
+                    int p = pred[k];
+                    if (seen[p] != stamp && blockSize[block[p]] > 1) { // a lone state cannot split
+                        seen[p] = stamp;
+                        touchedState[touchedCount++] = p;
                     }
                 }
             }
         }
-        return block;
+        while (next < depths.length) {
+            out[next++] = block.clone();
+        }
+        return out;
     }
 
     /** The slow twin of {@link #viableClasses}: every state re-examined in every round. */
@@ -442,10 +491,13 @@ public final class ByteDfa {
             hasEpsilon = true;
         }
 
-        /** Per node, its epsilon closure (itself included), computed on first use. */
+        /**
+         * Per node, its epsilon closure (itself included), computed on first use; only the nodes
+         * with byte edges or acceptance are kept.
+         */
         private int[][] nodeClosure;
 
-        /** The epsilon closure of a sorted set of nodes, sorted; {@code mark} is scratch space per node. */
+        /** The epsilon closure of a sorted set of nodes (its nodes with byte edges or acceptance), sorted; {@code mark} is scratch space per node. */
         int[] closure(int[] set, int[] mark, int stamp) {
             if (!hasEpsilon) {
                 return set;
@@ -491,10 +543,14 @@ public final class ByteDfa {
             work.push(start);
             while (!work.isEmpty()) {
                 int node = work.pop();
-                if (n == out.length) {
-                    out = Arrays.copyOf(out, n * 2);
+                // only nodes with byte edges or acceptance shape the future: subsets that differ in
+                // pass-through nodes alone (the middle of a sequence, a rule's entry) are one state
+                if (edgeCounts.get(node) > 0 || accept[node]) {
+                    if (n == out.length) {
+                        out = Arrays.copyOf(out, n * 2);
+                    }
+                    out[n++] = node;
                 }
-                out[n++] = node;
                 int[] e = epsilon.get(node);
                 if (e != null) {
                     for (int to : e) {
@@ -806,155 +862,186 @@ public final class ByteDfa {
     }
 
     /**
-     * Hopcroft's partition refinement: the coarsest partition of the (trimmed) states compatible
-     * with acceptance and the transitions, in O(n k log n) for n states and k byte classes. A sink
-     * state stands for {@link #DEAD}; no live state can share its block.
+     * Hopcroft's partition refinement in Valmari and Lehtinen's form for partial transition functions
+     * ("Efficient minimization of DFAs with partial transition functions", 2008): blocks of states
+     * and cords of transitions refine each other, and {@link #DEAD} transitions are simply absent, so
+     * the work is O(t log n) for t live transitions and n states instead of paying for every dead
+     * one. The states must be trimmed (each can reach acceptance), so none is equivalent to
+     * {@link #DEAD}.
      *
      * @return the block of each state, numbered from 0 in order of first appearance
      */
     static int[] hopcroft(int m, int classes, int[] delta, boolean[] accepting) {
-        int n = m + 1;
-        int sink = m;
-        // predecessors per (class, target), compressed rows
-        int[] predStart = new int[classes * n + 1];
-        for (int st = 0; st < n; st++) {
-            for (int c = 0; c < classes; c++) {
-                int to = st == sink ? sink : delta[st * classes + c];
-                predStart[c * n + (to == DEAD ? sink : to) + 1]++;
+        if (m == 0) {
+            return new int[0];
+        }
+        int t = 0;
+        for (int x : delta) {
+            if (x != DEAD) {
+                t++;
             }
         }
-        for (int i = 0; i < classes * n; i++) {
-            predStart[i + 1] += predStart[i];
-        }
-        int[] pred = new int[predStart[classes * n]];
-        int[] fill = Arrays.copyOf(predStart, predStart.length);
-        for (int st = 0; st < n; st++) {
-            for (int c = 0; c < classes; c++) {
-                int to = st == sink ? sink : delta[st * classes + c];
-                pred[fill[c * n + (to == DEAD ? sink : to)]++] = st;
+        // transitions ordered by label: tail and head of each
+        int[] tail = new int[t];
+        int[] head = new int[t];
+        int[] labelStart = new int[classes + 1];
+        for (int i = 0; i < delta.length; i++) {
+            if (delta[i] != DEAD) {
+                labelStart[i % classes + 1]++;
             }
         }
-        // the partition: elems ordered by block; each block a range [start, end)
-        int[] elems = new int[n];
-        int[] pos = new int[n];
-        int[] blockOf = new int[n];
-        int[] bStart = new int[n + 1];
-        int[] bEnd = new int[n + 1];
-        int[] marked = new int[n + 1];
-        int k = 0;
+        for (int c = 0; c < classes; c++) {
+            labelStart[c + 1] += labelStart[c];
+        }
+        int[] fill = Arrays.copyOf(labelStart, classes);
+        for (int i = 0; i < delta.length; i++) {
+            if (delta[i] != DEAD) {
+                int k = fill[i % classes]++;
+                tail[k] = i / classes;
+                head[k] = delta[i];
+            }
+        }
+        // incoming transitions per state
+        int[] inStart = new int[m + 1];
+        for (int k = 0; k < t; k++) {
+            inStart[head[k] + 1]++;
+        }
+        for (int i = 0; i < m; i++) {
+            inStart[i + 1] += inStart[i];
+        }
+        int[] in = new int[t];
+        int[] inFill = Arrays.copyOf(inStart, m);
+        for (int k = 0; k < t; k++) {
+            in[inFill[head[k]]++] = k;
+        }
+        Refinement blocks = new Refinement(m, 1);
         for (int st = 0; st < m; st++) {
             if (accepting[st]) {
-                elems[k] = st;
-                pos[st] = k++;
+                blocks.mark(st);
             }
         }
-        int acceptEnd = k;
-        for (int st = 0; st < n; st++) {
-            if (st == sink || !accepting[st]) {
-                elems[k] = st;
-                pos[st] = k++;
-            }
-        }
-        int blocks;
-        if (acceptEnd == 0) {
-            blocks = 1;
-            bStart[0] = 0;
-            bEnd[0] = n;
-        } else {
-            blocks = 2;
-            bStart[0] = 0;
-            bEnd[0] = acceptEnd;
-            bStart[1] = acceptEnd;
-            bEnd[1] = n;
-            for (int i = acceptEnd; i < n; i++) {
-                blockOf[elems[i]] = 1;
-            }
-        }
-        boolean[] inWork = new boolean[(n + 1) * classes];
-        int[] work = new int[16];
-        int workSize = 0;
-        int first = blocks == 1 ? 0 : (bEnd[0] - bStart[0] <= bEnd[1] - bStart[1] ? 0 : 1);
+        blocks.split();
+        Refinement cords = new Refinement(t, 0);
         for (int c = 0; c < classes; c++) {
-            if (workSize == work.length) {
-                work = Arrays.copyOf(work, work.length * 2);
-            }
-            work[workSize++] = first * classes + c;
-            inWork[first * classes + c] = true;
-        }
-        int[] members = new int[n];
-        int[] touched = new int[n + 1];
-        while (workSize > 0) {
-            int item = work[--workSize];
-            inWork[item] = false;
-            int a = item / classes;
-            int c = item % classes;
-            int size = bEnd[a] - bStart[a];
-            System.arraycopy(elems, bStart[a], members, 0, size);
-            int touchedCount = 0;
-            for (int i = 0; i < size; i++) {
-                int t = members[i];
-                for (int p = predStart[c * n + t], end = predStart[c * n + t + 1]; p < end; p++) {
-                    int st = pred[p];
-                    int b = blockOf[st];
-                    int first0 = bStart[b] + marked[b];
-                    if (pos[st] < first0) {
-                        continue; // already marked
-                    }
-                    int other = elems[first0];
-                    elems[first0] = st;
-                    elems[pos[st]] = other;
-                    pos[other] = pos[st];
-                    pos[st] = first0;
-                    if (marked[b]++ == 0) {
-                        touched[touchedCount++] = b;
-                    }
-                }
-            }
-            for (int i = 0; i < touchedCount; i++) {
-                int b = touched[i];
-                int mk = marked[b];
-                marked[b] = 0;
-                if (mk == bEnd[b] - bStart[b]) {
-                    continue;
-                }
-                int nb = blocks++;
-                bStart[nb] = bStart[b];
-                bEnd[nb] = bStart[b] + mk;
-                bStart[b] = bEnd[nb];
-                for (int j = bStart[nb]; j < bEnd[nb]; j++) {
-                    blockOf[elems[j]] = nb;
-                }
-                boolean smallerIsNew = bEnd[nb] - bStart[nb] <= bEnd[b] - bStart[b];
-                for (int cc = 0; cc < classes; cc++) {
-                    int add;
-                    if (inWork[b * classes + cc]) {
-                        add = nb * classes + cc;
-                    } else {
-                        add = (smallerIsNew ? nb : b) * classes + cc;
-                    }
-                    if (!inWork[add]) {
-                        if (workSize == work.length) {
-                            work = Arrays.copyOf(work, work.length * 2);
-                        }
-                        work[workSize++] = add;
-                        inWork[add] = true;
-                    }
-                }
+            if (labelStart[c + 1] > labelStart[c]) {
+                cords.addSet(labelStart[c], labelStart[c + 1]);
             }
         }
-        // number the blocks of the real states in order of first appearance
-        int[] number = new int[blocks];
+        // a cord splits the blocks by "has a transition in it"; a new block splits the cords by "leads
+        // into it"; the first block needs no turn (its complement does the same work)
+        int b = 1;
+        for (int c = 0; c < cords.sets; c++) {
+            for (int i = cords.first[c]; i < cords.past[c]; i++) {
+                blocks.mark(tail[cords.elems[i]]);
+            }
+            blocks.split();
+            for (; b < blocks.sets; b++) {
+                for (int i = blocks.first[b]; i < blocks.past[b]; i++) {
+                    int st = blocks.elems[i];
+                    for (int k = inStart[st]; k < inStart[st + 1]; k++) {
+                        cords.mark(in[k]);
+                    }
+                }
+                cords.split();
+            }
+        }
+        int[] number = new int[blocks.sets];
         Arrays.fill(number, -1);
         int[] out = new int[m];
         int next = 0;
         for (int st = 0; st < m; st++) {
-            int b = blockOf[st];
-            if (number[b] < 0) {
-                number[b] = next++;
+            int bl = blocks.setOf[st];
+            if (number[bl] < 0) {
+                number[bl] = next++;
             }
-            out[st] = number[b];
+            out[st] = number[bl];
         }
         return out;
+    }
+
+    /**
+     * A refinable partition of 0..n-1 (Valmari and Lehtinen): each set is a range of {@link #elems};
+     * marked elements are moved to the front of their set, and {@link #split} cuts every touched set
+     * in two, the smaller part becoming a new set (numbered after all the others).
+     */
+    private static final class Refinement {
+        final int[] elems;
+        final int[] location;
+        final int[] setOf;
+        final int[] first;
+        final int[] past;
+        final int[] marked;
+        final int[] touched;
+        int touchedCount;
+        int sets;
+
+        /** One set holding every element ({@code initialSets} 1), or none yet ({@code 0}). */
+        Refinement(int n, int initialSets) {
+            elems = new int[n];
+            location = new int[n];
+            setOf = new int[n];
+            first = new int[n + 1];
+            past = new int[n + 1];
+            marked = new int[n + 1];
+            touched = new int[n + 1];
+            for (int i = 0; i < n; i++) {
+                elems[i] = i;
+                location[i] = i;
+            }
+            if (initialSets == 1 && n > 0) {
+                sets = 1;
+                past[0] = n;
+            }
+        }
+
+        /** Makes the elements in positions [from, to) a set of their own (only while building). */
+        void addSet(int from, int to) {
+            for (int i = from; i < to; i++) {
+                setOf[elems[i]] = sets;
+            }
+            first[sets] = from;
+            past[sets] = to;
+            sets++;
+        }
+
+        void mark(int e) {
+            int s = setOf[e];
+            int i = location[e];
+            int j = first[s] + marked[s];
+            elems[i] = elems[j];
+            location[elems[i]] = i;
+            elems[j] = e;
+            location[e] = j;
+            if (marked[s]++ == 0) {
+                touched[touchedCount++] = s;
+            }
+        }
+
+        void split() {
+            while (touchedCount > 0) {
+                int s = touched[--touchedCount];
+                int j = first[s] + marked[s];
+                if (j == past[s]) {
+                    marked[s] = 0;
+                    continue;
+                }
+                int z = sets++;
+                if (marked[s] <= past[s] - j) {
+                    first[z] = first[s];
+                    past[z] = j;
+                    first[s] = j;
+                } else {
+                    past[z] = past[s];
+                    first[z] = j;
+                    past[s] = j;
+                }
+                for (int i = first[z]; i < past[z]; i++) {
+                    setOf[elems[i]] = z;
+                }
+                marked[s] = 0;
+                marked[z] = 0;
+            }
+        }
     }
 
     /** Moore's refinement, the slow twin of {@link #hopcroft}: rounds until the partition is stable. */

@@ -146,7 +146,27 @@ public final class CodePointSet {
 
     /** Set intersection. */
     public CodePointSet intersect(CodePointSet other) {
-        return complement().union(other.complement()).complement();
+        // one merge of the two sorted range lists; pieces from canonical sets are never adjacent
+        int[] a = bounds;
+        int[] b = other.bounds;
+        int[] out = new int[a.length + b.length];
+        int m = 0;
+        int i = 0;
+        int j = 0;
+        while (i < a.length && j < b.length) {
+            int lo = Math.max(a[i], b[j]);
+            int hi = Math.min(a[i + 1], b[j + 1]);
+            if (lo <= hi) {
+                out[m++] = lo;
+                out[m++] = hi;
+            }
+            if (a[i + 1] < b[j + 1]) {
+                i += 2;
+            } else {
+                j += 2;
+            }
+        }
+        return new CodePointSet(Arrays.copyOf(out, m));
     }
 
     /** Members of this set that are not in {@code other}. */

@@ -1,6 +1,7 @@
 package dev.espalier.grammar;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.IdentityHashMap;
 import java.util.List;
 
@@ -41,47 +42,57 @@ public abstract class ExprFold<V> {
      *
      * @param record when not null, receives every node's value (keyed by identity)
      */
+    @SuppressWarnings("unchecked")
     public final V run(Expr root, IdentityHashMap<Expr, V> record) {
-        List<Expr> nodes = new ArrayList<>();
-        List<Integer> next = new ArrayList<>();
-        List<V> values = new ArrayList<>();
-        nodes.add(root);
-        next.add(0);
+        // the path from the root (with the next child to visit of each) and the values of finished
+        // children waiting for their parent, as arrays: this runs over every node of large grammars
+        Expr[] nodes = new Expr[16];
+        int[] next = new int[16];
+        Object[] values = new Object[16];
+        int depth = 0;
+        int valueCount = 0;
+        nodes[0] = root;
         while (true) {
-            int top = nodes.size() - 1;
-            Expr e = nodes.get(top);
+            Expr e = nodes[depth];
             List<Expr> kids = children(e);
-            int i = next.get(top);
+            int i = next[depth];
             if (i < kids.size()) {
-                next.set(top, i + 1);
-                nodes.add(kids.get(i));
-                next.add(0);
+                next[depth] = i + 1;
+                if (++depth == nodes.length) {
+                    nodes = Arrays.copyOf(nodes, depth * 2);
+                    next = Arrays.copyOf(next, depth * 2);
+                }
+                nodes[depth] = kids.get(i);
+                next[depth] = 0;
                 continue;
             }
             V v;
             if (kids.isEmpty() && !(e instanceof Expr.Seq) && !(e instanceof Expr.Choice)) {
                 v = leaf(e);
             } else {
-                List<V> args = values.subList(values.size() - kids.size(), values.size());
-                List<V> copy = new ArrayList<>(args);
-                args.clear();
+                int from = valueCount - kids.size();
+                List<V> args = (List<V>) Arrays.asList(Arrays.copyOfRange(values, from, valueCount));
+                Arrays.fill(values, from, valueCount, null);
+                valueCount = from;
                 if (e instanceof Expr.Seq s) {
-                    v = seq(s, copy);
+                    v = seq(s, args);
                 } else if (e instanceof Expr.Choice c) {
-                    v = choice(c, copy);
+                    v = choice(c, args);
                 } else {
-                    v = repeat((Expr.Repeat) e, copy.get(0));
+                    v = repeat((Expr.Repeat) e, args.get(0));
                 }
             }
             if (record != null) {
                 record.put(e, v);
             }
-            nodes.remove(top);
-            next.remove(top);
-            if (nodes.isEmpty()) {
+            nodes[depth] = null;
+            if (depth-- == 0) {
                 return v;
             }
-            values.add(v);
+            if (valueCount == values.length) {
+                values = Arrays.copyOf(values, valueCount * 2);
+            }
+            values[valueCount++] = v;
         }
     }
 

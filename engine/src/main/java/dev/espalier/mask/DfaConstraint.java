@@ -40,10 +40,13 @@ final class DfaConstraint implements Constraint {
         this.vocabulary = vocabulary;
         this.trie = vocabulary.trie();
         this.words = vocabulary.maskWords();
-        this.maskClass = dfa.viableClasses(trie.maxDepth());
+        // both partitions come from one run of refinement rounds
+        int[][] classes = trie.maxDepth() > SHORT
+                ? dfa.viableClasses(new int[] {SHORT, trie.maxDepth()})
+                : new int[][] {null, dfa.viableClasses(trie.maxDepth())};
+        this.maskClass = classes[1];
         // few mask classes: one walk each is cheap, and the short classes are not worth computing
-        int[] shortClasses = trie.maxDepth() > SHORT && max(maskClass) + 1 > TWO_PART_CLASSES
-                ? dfa.viableClasses(SHORT) : null;
+        int[] shortClasses = max(maskClass) + 1 > TWO_PART_CLASSES ? classes[0] : null;
         if (shortClasses != null && 2 * (max(shortClasses) + 1) < max(maskClass) + 1) {
             this.shortClass = shortClasses;
             this.shortCache = new MaskCache(max(shortClasses) + 1, settings.cacheBudgetBytes() / 2);

@@ -80,7 +80,7 @@ public final class RegularRules {
         if (budget < 0) {
             return new Elimination(dfa, 0).fragment(prefix);
         }
-        if (budget > 0) {
+        if (budget > 0 && dfa.size() <= ELIMINATION_STATES) { // larger ones are not eliminated at all
             Elimination full = new Elimination(dfa, budget);
             if (full.eliminateAll()) {
                 return full.fragment(prefix);
@@ -104,10 +104,11 @@ public final class RegularRules {
 
         static CodePointDfa of(Automaton input, boolean minimal) {
             Automaton a;
-            if (minimal && input.isDeterministic() && !touchesSurrogates(input)) {
+            boolean surrogates = touchesSurrogates(input);
+            if (minimal && input.isDeterministic() && !surrogates) {
                 a = input; // only read
             } else {
-                a = touchesSurrogates(input) ? input.intersection(wellFormedUtf16()) : input.clone();
+                a = surrogates ? input.intersection(wellFormedUtf16()) : input.clone();
                 a.minimize();
             }
             State init = a.getInitialState();

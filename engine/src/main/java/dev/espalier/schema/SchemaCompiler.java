@@ -81,6 +81,7 @@ final class SchemaCompiler {
             "oneOf", "not", "if", "then", "else");
     private static final CodePointSet SPECIAL = CodePointSet.ofRanges(0, 0x1F, '"', '"', '\\', '\\');
     private static final CodePointSet SURROGATES = CodePointSet.range(0xD800, 0xDFFF);
+    private static final CodePointSet NOT_SURROGATES = CodePointSet.ALL.minus(SURROGATES);
     private static final CodePointSet DIGITS = CodePointSet.range('0', '9');
     private static final CodePointSet DIGITS19 = CodePointSet.range('1', '9');
 
@@ -100,6 +101,10 @@ final class SchemaCompiler {
     private final List<Rule> rules = new ArrayList<>();
     private final Deque<Object[]> pending = new ArrayDeque<>();
     private final Set<String> shared = new HashSet<>();
+    /** Rules already written in their final, readable form (see {@link #encodeReadable}). */
+    private final Set<String> readyRules = new HashSet<>();
+    /** Literals split for reading, by text. */
+    private final Map<String, Expr> splits = new HashMap<>();
 
     SchemaCompiler(JsonNode root, SchemaOptions options) {
         this.index = new SchemaIndex(root);
@@ -127,7 +132,7 @@ final class SchemaCompiler {
         }
         List<Rule> readable = new ArrayList<>();
         for (Rule r : rules) {
-            readable.add(Rule.of(r.name(), readable(r.body())));
+            readable.add(readyRules.contains(r.name()) ? r : Rule.of(r.name(), readable(r.body(), splits)));
         }
         Grammar g = Grammar.of(readable, "root");
         return new SchemaResult(g, options, List.copyOf(relaxations), List.copyOf(warnings), this::renderTop);
@@ -138,36 +143,69 @@ final class SchemaCompiler {
      * quoted strings (case-insensitive ones when they hold no letter, which is the same language),
      * the rest (double quotes, line ends) separate literals; nested concatenations are flattened.
      */
-    private static Expr readable(Expr body) {
-        return new ExprFold<Expr>() {
-            @Override
-            protected Expr leaf(Expr e) {
-                return e instanceof Expr.Text t && !t.ignoreCase() ? split(t.text()) : e;
-            }
+    private static Expr readable(Expr body, Map<String, Expr> splits) {
+        return new Readable(e -> e, splits).run(body, null);
+    }
 
-            @Override
-            protected Expr seq(Expr.Seq s, List<Expr> items) {
-                List<Expr> flat = new ArrayList<>();
-                for (Expr e : items) {
-                    if (e instanceof Expr.Seq q) {
-                        flat.addAll(q.items());
-                    } else {
-                        flat.add(e);
-                    }
+    /**
+     * {@link #readable} of an expression after {@code leaves} has replaced its leaves (a leaf may
+     * become any expression; it is made readable in turn).
+     */
+    private static final class Readable extends ExprFold<Expr> {
+        private final java.util.function.UnaryOperator<Expr> leaves;
+        private final Map<String, Expr> splits;
+
+        Readable(java.util.function.UnaryOperator<Expr> leaves, Map<String, Expr> splits) {
+            this.leaves = leaves;
+            this.splits = splits;
+        }
+
+        @Override
+        protected Expr leaf(Expr original) {
+            Expr e = leaves.apply(original);
+            if (e instanceof Expr.Text t) {
+                return t.ignoreCase() ? t : splits.computeIfAbsent(t.text(), SchemaCompiler::split);
+            }
+            return e == original ? e : new Readable(x -> x, splits).run(e, null);
+        }
+
+        @Override
+        protected Expr seq(Expr.Seq s, List<Expr> items) {
+            boolean nested = false;
+            List<Expr> flat = new ArrayList<>();
+            for (Expr e : items) {
+                if (e instanceof Expr.Seq q) {
+                    flat.addAll(q.items());
+                    nested = true;
+                } else {
+                    flat.add(e);
                 }
-                return flat.size() == 1 ? flat.get(0) : new Expr.Seq(flat, s.span());
             }
+            if (!nested && items.size() != 1 && same(s.items(), items)) {
+                return s;
+            }
+            return flat.size() == 1 ? flat.get(0) : new Expr.Seq(flat, s.span());
+        }
 
-            @Override
-            protected Expr choice(Expr.Choice c, List<Expr> options) {
-                return new Expr.Choice(options, c.span());
-            }
+        @Override
+        protected Expr choice(Expr.Choice c, List<Expr> options) {
+            return same(c.options(), options) ? c : new Expr.Choice(options, c.span());
+        }
 
-            @Override
-            protected Expr repeat(Expr.Repeat r, Expr body) {
-                return new Expr.Repeat(body, r.min(), r.max(), r.span());
+        @Override
+        protected Expr repeat(Expr.Repeat r, Expr body) {
+            return body == r.body() ? r : new Expr.Repeat(body, r.min(), r.max(), r.span());
+        }
+    }
+
+    /** Whether a node's new children are its old ones. */
+    private static boolean same(List<Expr> before, List<Expr> after) {
+        for (int i = 0; i < before.size(); i++) {
+            if (before.get(i) != after.get(i)) {
+                return false;
             }
-        }.run(body, null);
+        }
+        return true;
     }
 
     private static boolean printable(int cp) {
@@ -1813,15 +1851,7 @@ final class SchemaCompiler {
         return new ExprFold<Expr>() {
             @Override
             protected Expr leaf(Expr e) {
-                if (e instanceof Expr.Chars c) {
-                    return encodeSet(c.set());
-                }
-                if (e instanceof Expr.Text t) {
-                    StringBuilder sb = new StringBuilder();
-                    t.text().codePoints().forEach(cp -> sb.append(JsonText.encode(cp)));
-                    return new Expr.Text(sb.toString(), t.ignoreCase(), t.span());
-                }
-                return e;
+                return encodeLeaf(e);
             }
 
             @Override
@@ -1841,9 +1871,36 @@ final class SchemaCompiler {
         }.run(decoded, null);
     }
 
+    /**
+     * {@code readable(encode(decoded))} in one walk, for the many rules of a large string language;
+     * their rules then skip the final {@link #readable} pass.
+     */
+    private Expr encodeReadable(Expr decoded) {
+        return new Readable(this::encodeLeaf, splits).run(decoded, null);
+    }
+
+    private Expr encodeLeaf(Expr e) {
+        if (e instanceof Expr.Chars c) {
+            return encodeSet(c.set());
+        }
+        if (e instanceof Expr.Text t) {
+            StringBuilder sb = new StringBuilder();
+            t.text().codePoints().forEach(cp -> sb.append(JsonText.encode(cp)));
+            return new Expr.Text(sb.toString(), t.ignoreCase(), t.span());
+        }
+        return e;
+    }
+
+    /** Encoded character sets: right-linear rules repeat the same few sets many times. */
+    private final Map<CodePointSet, Expr> encodedSets = new HashMap<>();
+
     private Expr encodeSet(CodePointSet set) {
+        return encodedSets.computeIfAbsent(set, this::encodeNewSet);
+    }
+
+    private Expr encodeNewSet(CodePointSet set) {
         CodePointSet usable = set.minus(SURROGATES);
-        if (usable.equals(CodePointSet.ALL.minus(SURROGATES))) {
+        if (usable.equals(NOT_SURROGATES)) {
             return Expr.ref(charRule());
         }
         CodePointSet plain = usable.minus(SPECIAL);
@@ -1875,7 +1932,8 @@ final class SchemaCompiler {
         RegularFragment frag = minimal ? RegularRules.ofMinimal(prefix, a) : RegularRules.of(prefix, a);
         for (Rule r : frag.rules()) {
             usedNames.add(r.key());
-            rules.add(Rule.of(r.name(), encode(r.body())));
+            rules.add(Rule.of(r.name(), encodeReadable(r.body())));
+            readyRules.add(r.name());
         }
         return encode(frag.body());
     }

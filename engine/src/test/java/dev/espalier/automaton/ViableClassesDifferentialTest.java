@@ -22,8 +22,9 @@ import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
 
 /**
- * {@link ByteDfa#viableClasses}, which re-examines only the blocks a change can reach, against its
- * slow twin {@link ByteDfa#viableClassesByRounds}, which re-examines every state in every round: the
+ * {@link ByteDfa#viableClasses} (one depth, and all depths in one run), which re-examines only the
+ * states a change can reach, against its slow twin {@link ByteDfa#viableClassesByRounds}, which
+ * re-examines every state in every round: the
  * same partition (block numbers aside) at depths from 0 to beyond the longest distinction, on the
  * byte DFAs of the corpus schemas, the grammar library's rules and random expressions.
  */
@@ -42,9 +43,12 @@ class ViableClassesDifferentialTest {
     }
 
     static void same(String where, ByteDfa d) {
-        for (int depth : DEPTHS) {
-            assertArrayEquals(canonical(d.viableClassesByRounds(depth)), canonical(d.viableClasses(depth)),
-                    where + " at depth " + depth);
+        int[][] together = d.viableClasses(DEPTHS);
+        for (int i = 0; i < DEPTHS.length; i++) {
+            int depth = DEPTHS[i];
+            int[] slow = canonical(d.viableClassesByRounds(depth));
+            assertArrayEquals(slow, canonical(d.viableClasses(depth)), where + " at depth " + depth);
+            assertArrayEquals(slow, canonical(together[i]), where + " at depth " + depth + ", all depths in one run");
         }
     }
 
