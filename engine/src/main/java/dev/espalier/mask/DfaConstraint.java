@@ -19,12 +19,12 @@ final class DfaConstraint implements Constraint {
      * With many more mask classes than classes up to {@link #SHORT} bytes (a string with a length
      * bound: each count is its own class, though all counts far from the bound agree on short
      * tokens), a mask is computed in two parts: the tokens of at most {@link #SHORT} bytes from a
-     * mask cached per short class, the longer tokens one by one. Null otherwise.
+     * mask cached per short class, the longer tokens by a walk of their own trie. Null otherwise.
      */
     private final int[] shortClass;
     private final MaskCache shortCache;
-    private final int[] longIds;
-    private final byte[][] longBytes;
+    /** The tokens longer than {@link #SHORT} bytes, for the second part. */
+    private final VocabularyTrie longTrie;
 
     /** Token length (bytes) up to which the two-part computation caches masks per short class. */
     static final int SHORT = 12;
@@ -51,32 +51,13 @@ final class DfaConstraint implements Constraint {
             this.shortClass = shortClasses;
             this.shortCache = new MaskCache(max(shortClasses) + 1, settings.cacheBudgetBytes() / 2);
             this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes() / 2);
-            int count = 0;
-            for (int id = 0; id < vocabulary.size(); id++) {
-                if (inTrie(id) && vocabulary.length(id) > SHORT) {
-                    count++;
-                }
-            }
-            this.longIds = new int[count];
-            this.longBytes = new byte[count][];
-            int k = 0;
-            for (int id = 0; id < vocabulary.size(); id++) {
-                if (inTrie(id) && vocabulary.length(id) > SHORT) {
-                    longIds[k] = id;
-                    longBytes[k++] = vocabulary.bytes(id);
-                }
-            }
+            this.longTrie = vocabulary.trieLongerThan(SHORT);
         } else {
             this.shortClass = null;
             this.shortCache = null;
-            this.longIds = null;
-            this.longBytes = null;
+            this.longTrie = null;
             this.cache = new MaskCache(cacheSlots(), settings.cacheBudgetBytes());
         }
-    }
-
-    private boolean inTrie(int id) {
-        return vocabulary.has(id) && !vocabulary.isSpecial(id);
     }
 
     private static int max(int[] a) {
@@ -147,8 +128,8 @@ final class DfaConstraint implements Constraint {
 
     /**
      * Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte; in
-     * two parts when {@link #shortClass} is set (short tokens from their cached mask, long tokens run
-     * one by one). {@link #computeByWalk} is the one-walk twin.
+     * two parts when {@link #shortClass} is set (short tokens from their cached mask, long tokens by a
+     * walk of their own trie). {@link #computeByWalk} is the one-walk twin.
      */
     long[] compute(int state) {
         if (shortClass == null) {
@@ -162,17 +143,7 @@ final class DfaConstraint implements Constraint {
             shortMask = shortCache.put(key, shortMask);
         }
         long[] m = shortMask.clone();
-        for (int k = 0; k < longIds.length; k++) {
-            byte[] b = longBytes[k];
-            int s = state;
-            for (int i = 0; i < b.length && s != ByteDfa.DEAD; i++) {
-                s = dfa.step(s, b[i]);
-            }
-            if (s != ByteDfa.DEAD) {
-                int id = longIds[k];
-                m[id >>> 6] |= 1L << id;
-            }
-        }
+        longTrie.collect(dfa::step, state, m);
         return m;
     }
 

@@ -19,6 +19,8 @@ public final class Vocabulary {
     private final boolean[] special;
     private final int endOfSequence;
     private volatile VocabularyTrie trie;
+    private volatile VocabularyTrie longTrie;
+    private int longTrieBytes;
 
     private Vocabulary(String name, byte[][] tokens, boolean[] special, int endOfSequence) {
         this.name = name;
@@ -180,6 +182,27 @@ public final class Vocabulary {
             }
         }
         return t;
+    }
+
+    /**
+     * The trie of the ordinary tokens longer than {@code bytes} bytes alone, built on first use and
+     * kept for the most recent {@code bytes}: masks computed in two parts walk it for their long
+     * tokens, which share prefixes the walk prunes together.
+     */
+    public VocabularyTrie trieLongerThan(int bytes) {
+        synchronized (this) {
+            if (longTrie == null || longTrieBytes != bytes) {
+                byte[][] longer = new byte[tokens.length][];
+                for (int id = 0; id < tokens.length; id++) {
+                    if (tokens[id] != null && tokens[id].length > bytes) {
+                        longer[id] = tokens[id];
+                    }
+                }
+                longTrie = VocabularyTrie.build(longer, special);
+                longTrieBytes = bytes;
+            }
+            return longTrie;
+        }
     }
 
     @Override
