@@ -14,7 +14,6 @@ import java.util.IdentityHashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.TreeMap;
 
 /**
  * Regular languages given as automata, written back as grammar rules.
@@ -86,9 +85,57 @@ public final class RegularRules {
                 return full.fragment(prefix);
             }
         }
+        if (dfa.size() > ELIMINATION_STATES) {
+            return stateRules(dfa, prefix); // what the elimination would leave: every state
+        }
         Elimination cheap = new Elimination(dfa, 0);
         cheap.eliminateAll();
         return cheap.fragment(prefix);
+    }
+
+    /**
+     * One rule per state, {@code q = loop* (a1 Q1 / a2 Q2 / ... / "")}, written straight from the
+     * automaton: the same rules as an {@link Elimination} that eliminates nothing, without building
+     * its label tables (large automata, such as a format with a length bound, have thousands of
+     * states).
+     */
+    private static RegularFragment stateRules(CodePointDfa dfa, String prefix) {
+        int n = dfa.size();
+        boolean startReferenced = false;
+        for (int p = 1; p < n && !startReferenced; p++) {
+            startReferenced = dfa.out().get(p).containsKey(0);
+        }
+        String[] names = new String[n];
+        int named = 0;
+        for (int q = startReferenced ? 0 : 1; q < n; q++) {
+            names[q] = prefix + "-s" + named++;
+        }
+        List<Rule> rules = new ArrayList<>();
+        for (int q = 0; q < n; q++) {
+            if (names[q] != null) {
+                rules.add(Rule.of(names[q], stateEquation(dfa, q, names)));
+            }
+        }
+        Expr body = names[0] != null ? Expr.ref(names[0]) : stateEquation(dfa, 0, names);
+        return new RegularFragment(body, rules);
+    }
+
+    private static Expr stateEquation(CodePointDfa dfa, int q, String[] names) {
+        Sized loop = null;
+        List<Expr> options = new ArrayList<>();
+        for (Map.Entry<Integer, CodePointSet> e : dfa.out().get(q).entrySet()) {
+            Sized label = leaf(e.getValue());
+            if (e.getKey() == q) {
+                loop = label;
+            } else {
+                options.add(seq(label, new Sized(Expr.ref(names[e.getKey()]), 1)).expr());
+            }
+        }
+        if (dfa.accept()[q]) {
+            options.add(EMPTY_STRING);
+        }
+        Expr rest = options.size() == 1 ? options.get(0) : Expr.choice(options.toArray(Expr[]::new));
+        return loop == null ? rest : seq(star(loop), new Sized(rest, 1)).expr();
     }
 
     // ------------------------------------------------------------------ code-point automaton
@@ -115,19 +162,21 @@ public final class RegularRules {
             // number the states reached by code points (intermediate after-high-surrogate states are skipped)
             Map<State, Integer> id = new IdentityHashMap<>();
             List<State> order = new ArrayList<>();
-            List<Map<Integer, List<Integer>>> ranges = new ArrayList<>();
+            // per state: its steps as (target, lo, hi) triples, ordered by target
+            List<int[]> steps = new ArrayList<>();
             Deque<State> queue = new ArrayDeque<>();
             id.put(init, 0);
             order.add(init);
             queue.add(init);
+            Steps found = new Steps();
             while (!queue.isEmpty()) {
                 State s = queue.poll();
-                Map<Integer, List<Integer>> byTarget = new TreeMap<>();
+                found.clear();
                 for (Transition t : s.getSortedTransitions(false)) {
                     int min = t.getMin();
                     int max = t.getMax();
-                    add(byTarget, target(t.getDest(), id, order, queue), min, Math.min(max, 0xD7FF));
-                    add(byTarget, target(t.getDest(), id, order, queue), Math.max(min, 0xE000), max);
+                    found.add(target(t.getDest(), id, order, queue), min, Math.min(max, 0xD7FF));
+                    found.add(target(t.getDest(), id, order, queue), Math.max(min, 0xE000), max);
                     int h1 = Math.max(min, 0xD800);
                     int h2 = Math.min(max, 0xDBFF);
                     if (h1 > h2) {
@@ -141,17 +190,17 @@ public final class RegularRules {
                         }
                         int to = target(u.getDest(), id, order, queue);
                         if (l1 == 0xDC00 && l2 == 0xDFFF) {
-                            add(byTarget, to, Character.toCodePoint((char) h1, (char) l1),
+                            found.add(to, Character.toCodePoint((char) h1, (char) l1),
                                     Character.toCodePoint((char) h2, (char) l2));
                         } else {
                             for (int h = h1; h <= h2; h++) {
-                                add(byTarget, to, Character.toCodePoint((char) h, (char) l1),
+                                found.add(to, Character.toCodePoint((char) h, (char) l1),
                                         Character.toCodePoint((char) h, (char) l2));
                             }
                         }
                     }
                 }
-                ranges.add(byTarget);
+                steps.add(found.byTarget());
             }
             int n = order.size();
             boolean[] accept = new boolean[n];
@@ -164,8 +213,9 @@ public final class RegularRules {
                 changed = false;
                 for (int i = 0; i < n; i++) {
                     if (!live[i]) {
-                        for (int t : ranges.get(i).keySet()) {
-                            if (live[t]) {
+                        int[] st = steps.get(i);
+                        for (int k = 0; k < st.length; k += 3) {
+                            if (live[st[k]]) {
                                 live[i] = true;
                                 changed = true;
                                 break;
@@ -180,32 +230,82 @@ public final class RegularRules {
             // renumber live states reachable from the start, breadth first
             int[] renum = new int[n];
             java.util.Arrays.fill(renum, -1);
-            List<Integer> kept = new ArrayList<>();
+            int[] kept = new int[n];
+            int keptCount = 1;
             renum[0] = 0;
-            kept.add(0);
-            for (int k = 0; k < kept.size(); k++) {
-                for (int t : ranges.get(kept.get(k)).keySet()) {
+            for (int k = 0; k < keptCount; k++) {
+                int[] st = steps.get(kept[k]);
+                for (int j = 0; j < st.length; j += 3) {
+                    int t = st[j];
                     if (live[t] && renum[t] < 0) {
-                        renum[t] = kept.size();
-                        kept.add(t);
+                        renum[t] = keptCount;
+                        kept[keptCount++] = t;
                     }
                 }
             }
             List<Map<Integer, CodePointSet>> out = new ArrayList<>();
-            boolean[] acc = new boolean[kept.size()];
-            for (int k = 0; k < kept.size(); k++) {
-                int old = kept.get(k);
+            boolean[] acc = new boolean[keptCount];
+            for (int k = 0; k < keptCount; k++) {
+                int old = kept[k];
                 acc[k] = accept[old];
                 Map<Integer, CodePointSet> m = new LinkedHashMap<>();
-                for (Map.Entry<Integer, List<Integer>> e : ranges.get(old).entrySet()) {
-                    if (renum[e.getKey()] >= 0) {
-                        int[] pairs = e.getValue().stream().mapToInt(Integer::intValue).toArray();
-                        m.put(renum[e.getKey()], CodePointSet.ofRanges(pairs));
+                int[] st = steps.get(old);
+                for (int j = 0; j < st.length; ) {
+                    int t = st[j];
+                    int e = j;
+                    while (e < st.length && st[e] == t) {
+                        e += 3;
                     }
+                    if (renum[t] >= 0) {
+                        int[] pairs = new int[2 * ((e - j) / 3)];
+                        for (int x = j, y = 0; x < e; x += 3) {
+                            pairs[y++] = st[x + 1];
+                            pairs[y++] = st[x + 2];
+                        }
+                        m.put(renum[t], CodePointSet.ofRanges(pairs));
+                    }
+                    j = e;
                 }
                 out.add(m);
             }
             return new CodePointDfa(out, acc);
+        }
+
+        /** A state's steps while they are found: (target, lo, hi) triples. */
+        private static final class Steps {
+            private int[] triples = new int[24];
+            private int size;
+
+            void clear() {
+                size = 0;
+            }
+
+            void add(int target, int lo, int hi) {
+                if (lo > hi) {
+                    return;
+                }
+                if (size + 3 > triples.length) {
+                    triples = java.util.Arrays.copyOf(triples, triples.length * 2);
+                }
+                triples[size++] = target;
+                triples[size++] = lo;
+                triples[size++] = hi;
+            }
+
+            /** The triples ordered by target (stable: a target's ranges keep their order). */
+            int[] byTarget() {
+                int n = size / 3;
+                Integer[] idx = new Integer[n];
+                for (int i = 0; i < n; i++) {
+                    idx[i] = i;
+                }
+                java.util.Arrays.sort(idx, (x, y) -> Integer.compare(triples[3 * x], triples[3 * y]));
+                int[] out = new int[size];
+                for (int i = 0; i < n; i++) {
+                    System.arraycopy(triples, 3 * idx[i], out, 3 * i, 3);
+                }
+                return out;
+            }
         }
 
         private static int target(State s, Map<State, Integer> id, List<State> order, Deque<State> queue) {
@@ -217,14 +317,6 @@ public final class RegularRules {
                 queue.add(s);
             }
             return i;
-        }
-
-        private static void add(Map<Integer, List<Integer>> byTarget, int target, int lo, int hi) {
-            if (lo <= hi) {
-                List<Integer> l = byTarget.computeIfAbsent(target, k -> new ArrayList<>());
-                l.add(lo);
-                l.add(hi);
-            }
         }
 
         private static boolean touchesSurrogates(Automaton a) {

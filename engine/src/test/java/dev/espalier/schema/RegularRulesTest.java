@@ -116,6 +116,29 @@ class RegularRulesTest {
         assertFalse(FragmentRecognizer.of(eps).test("a"));
     }
 
+    /**
+     * Over {@link RegularRules#ELIMINATION_STATES} states nothing is eliminated, and the rules are
+     * written straight from the automaton: they must be exactly those of an elimination that
+     * eliminates nothing (its slow twin), loops, acceptance and a start state referred to included.
+     */
+    @Test
+    void largeAutomataGetTheRulesOfAnEliminationOfNothing() {
+        String[] patterns = {
+            "[a-z]{0,1600}",
+            "(?:[a-c]|d[e-f\uD83C\uDF4E]){0,900}x?",
+            "(?:[a-z]{1,3}\\.){0,700}[a-z]+",
+            "(?:a{0,1600}b)*",
+        };
+        for (String pattern : patterns) {
+            Automaton automaton = CharAutomata.compile(RegexSyntax.parse(pattern), null, 100_000);
+            RegularFragment direct = RegularRules.of("big", automaton);
+            RegularFragment twin = RegularRules.of("big", automaton, -1);
+            assertTrue(twin.rules().size() > RegularRules.ELIMINATION_STATES, pattern + ": " + twin.rules().size() + " rules");
+            assertEquals(twin.body(), direct.body(), pattern);
+            assertEquals(twin.rules(), direct.rules(), pattern);
+        }
+    }
+
     private static String randomPattern(Random random, int depth) {
         int kind = depth == 0 ? 0 : random.nextInt(6);
         switch (kind) {
