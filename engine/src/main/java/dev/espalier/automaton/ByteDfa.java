@@ -265,140 +265,241 @@ public final class ByteDfa {
         int n = stateCount();
         int[][] out = new int[depths.length][];
         int depth = depths.length == 0 ? 0 : Math.max(0, depths[depths.length - 1]);
-        int[] block = new int[n];
+        Refiner r = new Refiner(this);
         int next = 0;
-        // predecessors of each state (one entry per class leading to it)
-        int[] predStart = new int[n + 1];
-        for (int i = 0; i < table.length; i++) {
-            if (table[i] != DEAD) {
-                predStart[table[i] + 1]++;
-            }
-        }
-        for (int i = 0; i < n; i++) {
-            predStart[i + 1] += predStart[i];
-        }
-        int[] pred = new int[predStart[n]];
-        int[] fill = Arrays.copyOf(predStart, n);
-        for (int i = 0; i < table.length; i++) {
-            if (table[i] != DEAD) {
-                pred[fill[table[i]]++] = i / classCount;
-            }
-        }
-        int[] blockSize = new int[n + 1];
-        blockSize[0] = n;
-        int blocks = 1;
-        int[] seen = new int[n];
-        int[] touchedState = new int[n];
-        int[] moved = new int[n];
-        int[] movedTo = new int[n];
-        // round 0 re-examines every state: all start in one block
-        int touchedCount = n;
-        for (int i = 0; i < n; i++) {
-            touchedState[i] = i;
-        }
-        final int[] blockNow = block;
-        // successors' blocks, compared in full; the sort goes by block, then a hash of them
-        java.util.Comparator<Integer> bySuccessors = (x, y) -> {
-            int bx = x * classCount;
-            int by = y * classCount;
-            for (int c = 0; c < classCount; c++) {
-                int tx = table[bx + c];
-                int ty = table[by + c];
-                int kx = tx == DEAD ? -1 : blockNow[tx];
-                int ky = ty == DEAD ? -1 : blockNow[ty];
-                if (kx != ky) {
-                    return Integer.compare(kx, ky);
-                }
-            }
-            return 0;
-        };
-        long[] key = new long[n];
-        java.util.Comparator<Integer> byKey = (x, y) -> Long.compare(key[x], key[y]);
-        java.util.Comparator<Integer> byBlockThenSuccessors = (x, y) -> {
-            int c = Long.compare(key[x], key[y]);
-            return c != 0 ? c : bySuccessors.compare(x, y);
-        };
-        for (int round = 0; round < depth && touchedCount > 0; round++) {
+        for (int round = 0; round < depth && r.touchedCount > 0; round++) {
             while (next < depths.length && depths[next] <= round) {
-                out[next++] = block.clone();
+                out[next++] = r.block.clone();
             }
-            Integer[] members = new Integer[touchedCount];
-            for (int i = 0; i < touchedCount; i++) {
-                int st = touchedState[i];
-                members[i] = st;
-                int h = 1;
-                for (int c = 0, row = st * classCount; c < classCount; c++) {
-                    int t = table[row + c];
-                    h = 31 * h + (t == DEAD ? -1 : block[t]);
+            r.round(round + 1);
+        }
+        while (next < depths.length) {
+            out[next++] = r.block.clone();
+        }
+        return out;
+    }
+
+    /**
+     * The rounds of {@link #viableClasses}. A state's signature is its row read as maximal runs of
+     * classes whose targets share a block (or die): rows are stored as runs of equal targets, so a
+     * signature costs the runs of a row, not its classes. Touched states are grouped by block and
+     * signature in an open-addressing table keyed by block and a hash, each hit confirmed in full.
+     */
+    private static final class Refiner {
+        private final int[] runStart;
+        private final int[] runClass;
+        private final int[] runTarget;
+        private final int[] predStart;
+        private final int[] pred;
+        final int[] block;
+        private final int[] blockSize;
+        private int blocks = 1;
+        private int[] touched;
+        int touchedCount;
+        private final int[] seen;
+        private final int[] touchedInBlock;
+        private final int[] keptStamp;
+        private final int[] moved;
+        private final int[] groupOf;
+        private final int[] groupBlock;
+        private final int[] groupSize;
+        private final int[] groupNew;
+        private final int[] groupFirst;
+        private long[] slotKey;
+        private int[] slotGroup;
+        private int[] slotStamp;
+
+        Refiner(ByteDfa d) {
+            int n = d.stateCount();
+            int k = d.classCount;
+            int[] table = d.table;
+            runStart = new int[n + 1];
+            int runs = 0;
+            for (int st = 0; st < n; st++) {
+                runStart[st] = runs;
+                for (int c = 0; c < k; c++) {
+                    if (c == 0 || table[st * k + c] != table[st * k + c - 1]) {
+                        runs++;
+                    }
                 }
-                key[st] = (long) block[st] << 32 | (h & 0xFFFFFFFFL);
             }
-            Arrays.sort(members, byKey);
-            // equal keys with different successors (a hash collision) are ordered in full
-            for (int i = 0; i < members.length; ) {
-                int j = i + 1;
-                while (j < members.length && key[members[j]] == key[members[i]]) {
+            runStart[n] = runs;
+            runClass = new int[runs];
+            runTarget = new int[runs];
+            for (int st = 0, j = 0; st < n; st++) {
+                for (int c = 0; c < k; c++) {
+                    if (c == 0 || table[st * k + c] != table[st * k + c - 1]) {
+                        runClass[j] = c;
+                        runTarget[j++] = table[st * k + c];
+                    }
+                }
+            }
+            // predecessors of each state (one entry per run leading to it)
+            predStart = new int[n + 1];
+            for (int j = 0; j < runs; j++) {
+                if (runTarget[j] != DEAD) {
+                    predStart[runTarget[j] + 1]++;
+                }
+            }
+            for (int i = 0; i < n; i++) {
+                predStart[i + 1] += predStart[i];
+            }
+            pred = new int[predStart[n]];
+            int[] fill = Arrays.copyOf(predStart, n);
+            for (int st = 0; st < n; st++) {
+                for (int j = runStart[st]; j < runStart[st + 1]; j++) {
+                    if (runTarget[j] != DEAD) {
+                        pred[fill[runTarget[j]]++] = st;
+                    }
+                }
+            }
+            block = new int[n];
+            blockSize = new int[n + 1];
+            blockSize[0] = n;
+            seen = new int[n];
+            touchedInBlock = new int[n + 1];
+            keptStamp = new int[n + 1];
+            moved = new int[n];
+            groupOf = new int[n];
+            groupBlock = new int[n];
+            groupSize = new int[n];
+            groupNew = new int[n];
+            groupFirst = new int[n];
+            // round 1 examines every state: all start in one block
+            touched = new int[n];
+            for (int i = 0; i < n; i++) {
+                touched[i] = i;
+            }
+            touchedCount = n;
+            slotKey = new long[0];
+            slotGroup = new int[0];
+            slotStamp = new int[0];
+        }
+
+        /** The block of the target of run {@code j}, -1 for dead. */
+        private int runBlock(int j) {
+            int t = runTarget[j];
+            return t == DEAD ? -1 : block[t];
+        }
+
+        private int hash(int st) {
+            int h = 1;
+            int last = Integer.MIN_VALUE;
+            for (int j = runStart[st]; j < runStart[st + 1]; j++) {
+                int b = runBlock(j);
+                if (b != last) {
+                    h = (h * 31 + runClass[j]) * 31 + b;
+                    last = b;
+                }
+            }
+            return h;
+        }
+
+        /** Whether two states' rows, read as runs of blocks, are equal. */
+        private boolean sameSignature(int x, int y) {
+            int i = runStart[x];
+            int ie = runStart[x + 1];
+            int j = runStart[y];
+            int je = runStart[y + 1];
+            int lastX = Integer.MIN_VALUE;
+            int lastY = Integer.MIN_VALUE;
+            while (true) {
+                while (i < ie && runBlock(i) == lastX) {
+                    i++;
+                }
+                while (j < je && runBlock(j) == lastY) {
                     j++;
                 }
-                for (int k = i + 1; k < j; k++) {
-                    if (bySuccessors.compare(members[i], members[k]) != 0) {
-                        Arrays.sort(members, i, j, bySuccessors);
+                if (i == ie || j == je) {
+                    return i == ie && j == je;
+                }
+                lastX = runBlock(i);
+                lastY = runBlock(j);
+                if (lastX != lastY || runClass[i] != runClass[j]) {
+                    return false;
+                }
+            }
+        }
+
+        /** One round: splits the blocks of the touched states, then touches the moved states' predecessors. */
+        void round(int stamp) {
+            int capacity = Integer.highestOneBit(Math.max(4, touchedCount) * 2) * 2;
+            if (slotKey.length < capacity) {
+                slotKey = new long[capacity];
+                slotGroup = new int[capacity];
+                slotStamp = new int[capacity];
+            }
+            int mask = slotKey.length - 1;
+            int groups = 0;
+            for (int i = 0; i < touchedCount; i++) {
+                int st = touched[i];
+                int b = block[st];
+                touchedInBlock[b]++;
+                long key = (long) b << 32 | (hash(st) & 0xFFFFFFFFL);
+                int slot = (int) ((key * 0x9E3779B97F4A7C15L) >>> 40) & mask;
+                int g;
+                while (true) {
+                    if (slotStamp[slot] != stamp) {
+                        g = groups++;
+                        slotStamp[slot] = stamp;
+                        slotKey[slot] = key;
+                        slotGroup[slot] = g;
+                        groupBlock[g] = b;
+                        groupSize[g] = 0;
+                        groupFirst[g] = st;
                         break;
                     }
+                    if (slotKey[slot] == key && sameSignature(st, groupFirst[slotGroup[slot]])) {
+                        g = slotGroup[slot];
+                        break;
+                    }
+                    slot = (slot + 1) & mask;
                 }
-                i = j;
+                groupOf[i] = g;
+                groupSize[g]++;
             }
-            int movedCount = 0;
-            // per block: its touched states in runs of equal signature; when every state of the block
-            // was touched, the first run keeps the block, otherwise the untouched ones do
-            for (int i = 0; i < members.length; ) {
-                int b = block[members[i]];
-                int j = i;
-                while (j < members.length && block[members[j]] == b) {
-                    j++;
-                }
-                boolean firstKeeps = j - i == blockSize[b];
-                int runStart = i;
-                for (int k = i + 1; k <= j; k++) {
-                    if (k == j || byBlockThenSuccessors.compare(members[k - 1], members[k]) != 0) {
-                        if (runStart == i && firstKeeps) {
-                            if (k == j) {
-                                break; // one run holding the whole block: no split
-                            }
-                        } else {
-                            int nb = blocks++;
-                            for (int x = runStart; x < k; x++) {
-                                moved[movedCount] = members[x];
-                                movedTo[movedCount++] = nb;
-                            }
-                            blockSize[nb] = k - runStart;
-                            blockSize[b] -= k - runStart;
-                        }
-                        runStart = k;
+            // a block whose states were all touched keeps its number for its first group; otherwise
+            // its untouched states keep it (a touched state differs from them: one of its successors
+            // has just changed block)
+            for (int g = 0; g < groups; g++) {
+                int b = groupBlock[g];
+                // decided at a block's first group, before its size shrinks
+                if (keptStamp[b] != stamp) {
+                    keptStamp[b] = stamp;
+                    if (touchedInBlock[b] == blockSize[b]) {
+                        groupNew[g] = b;
+                        continue;
                     }
                 }
-                i = j;
+                int nb = blocks++;
+                groupNew[g] = nb;
+                blockSize[nb] = groupSize[g];
+                blockSize[b] -= groupSize[g];
             }
-            for (int i = 0; i < movedCount; i++) {
-                block[moved[i]] = movedTo[i];
+            int movedCount = 0;
+            for (int i = 0; i < touchedCount; i++) {
+                int st = touched[i];
+                touchedInBlock[block[st]] = 0;
+                int nb = groupNew[groupOf[i]];
+                if (nb != block[st]) {
+                    moved[movedCount++] = st;
+                }
+            }
+            for (int i = 0; i < touchedCount; i++) {
+                block[touched[i]] = groupNew[groupOf[i]];
             }
             touchedCount = 0;
-            int stamp = round + 1;
             for (int i = 0; i < movedCount; i++) {
                 int st = moved[i];
                 for (int k = predStart[st]; k < predStart[st + 1]; k++) {
                     int p = pred[k];
                     if (seen[p] != stamp && blockSize[block[p]] > 1) { // a lone state cannot split
                         seen[p] = stamp;
-                        touchedState[touchedCount++] = p;
+                        touched[touchedCount++] = p;
                     }
                 }
             }
         }
-        while (next < depths.length) {
-            out[next++] = block.clone();
-        }
-        return out;
     }
 
     /** The slow twin of {@link #viableClasses}: every state re-examined in every round. */
@@ -797,33 +898,47 @@ public final class ByteDfa {
         for (int i = 0; i < n; i++) {
             renum[i] = live[i] ? m++ : DEAD;
         }
-        // byte classes: bytes whose columns agree over the live states
-        byte[] classOf = new byte[256];
-        Map<IntSet, Integer> columns = new HashMap<>();
-        int[] representative = new int[256];
-        int[] columnOfInput = new int[257];
-        Arrays.fill(columnOfInput, -1);
+        // byte classes: bytes whose columns agree over the live states; the columns are hashed
+        // reading the rows in order (row by row is far cheaper than column by column), and input
+        // classes with equal hashes are compared in full
+        int inputs = 0;
         for (int b = 0; b < 256; b++) {
-            if (columnOfInput[inputClass[b]] >= 0) {
-                classOf[b] = (byte) columnOfInput[inputClass[b]];
-                continue;
-            }
-            int[] col = new int[m];
-            for (int i = 0; i < n; i++) {
-                if (live[i]) {
-                    int to = rows.get(i)[inputClass[b]];
-                    col[renum[i]] = to == DEAD ? DEAD : renum[to];
+            inputs = Math.max(inputs, inputClass[b] + 1);
+        }
+        long[] columnHash = new long[inputs];
+        for (int i = 0; i < n; i++) {
+            if (live[i]) {
+                int[] row = rows.get(i);
+                for (int c = 0; c < inputs; c++) {
+                    int to = row[c];
+                    columnHash[c] = columnHash[c] * 1_000_003L + (to == DEAD ? DEAD : renum[to]);
                 }
             }
-            int size = columns.size();
-            int c = columns.computeIfAbsent(new IntSet(col), k -> size);
-            if (c == size) {
-                representative[c] = b;
-            }
-            classOf[b] = (byte) c;
-            columnOfInput[inputClass[b]] = c;
         }
-        int classes = columns.size();
+        byte[] classOf = new byte[256];
+        int[] representative = new int[256];
+        int[] columnOfInput = new int[inputs];
+        Arrays.fill(columnOfInput, -1);
+        int[] seenInputs = new int[inputs];
+        int seenCount = 0;
+        int classes = 0;
+        for (int b = 0; b < 256; b++) {
+            int in = inputClass[b];
+            if (columnOfInput[in] < 0) {
+                for (int k = 0; k < seenCount && columnOfInput[in] < 0; k++) {
+                    int other = seenInputs[k];
+                    if (columnHash[other] == columnHash[in] && sameColumn(rows, live, renum, other, in)) {
+                        columnOfInput[in] = columnOfInput[other];
+                    }
+                }
+                if (columnOfInput[in] < 0) {
+                    representative[classes] = b;
+                    columnOfInput[in] = classes++;
+                }
+                seenInputs[seenCount++] = in;
+            }
+            classOf[b] = (byte) columnOfInput[in];
+        }
         int[] delta = new int[m * classes];
         boolean[] accepting = new boolean[m];
         for (int i = 0; i < n; i++) {
@@ -859,6 +974,21 @@ public final class ByteDfa {
             }
         }
         return new ByteDfa(0, classOf, classes, table, acceptingMin);
+    }
+
+    /** Whether input classes {@code a} and {@code b} lead every live row to the same live state or both die. */
+    private static boolean sameColumn(List<int[]> rows, boolean[] live, int[] renum, int a, int b) {
+        for (int i = 0; i < live.length; i++) {
+            if (live[i]) {
+                int[] row = rows.get(i);
+                int x = row[a] == DEAD ? DEAD : renum[row[a]];
+                int y = row[b] == DEAD ? DEAD : renum[row[b]];
+                if (x != y) {
+                    return false;
+                }
+            }
+        }
+        return true;
     }
 
     /**
