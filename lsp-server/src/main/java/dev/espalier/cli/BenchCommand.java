@@ -244,11 +244,14 @@ final class BenchCommand implements Callable<Integer> {
         for (String f : grammars == null ? List.<String>of() : grammars) {
             formats.put(Path.of(f).getFileName().toString(), GrammarFiles.load(f, null, spec.commandLine().getErr()));
         }
-        for (String f : schemas == null ? List.<String>of() : schemas) {
+        List<String> schemaFiles = schemas == null ? List.of() : schemas;
+        for (String f : schemaFiles) {
             dev.espalier.grammar.Grammar g = SchemaFiles.load(f, dev.espalier.schema.SchemaOptions.defaults(),
                     spec.commandLine().getErr()).grammar();
             formats.put(Path.of(f).getFileName().toString(), g);
-            out.println(schemaCompileTimes(f));
+        }
+        if (!schemaFiles.isEmpty()) {
+            schemaCompileTimes(schemaFiles, out);
         }
         String head = "%-22s %-20s %9s %9s %9s %8s %8s %8s %8s %8s %6s %8s %10s %8s%n";
         out.printf(head, "grammar", "vocabulary", "compile", "1st-mask", "1st-cpu", "median", "p99", "max", "cpu-med",
@@ -281,23 +284,45 @@ final class BenchCommand implements Callable<Integer> {
         return 0;
     }
 
-    /** Schema to grammar: the median of 9 compiles after 3 unreported ones (the JIT warms up). */
-    private static String schemaCompileTimes(String file) {
-        String text;
-        try {
-            text = Files.readString(Path.of(file), StandardCharsets.UTF_8);
-        } catch (java.io.IOException e) {
-            throw new java.io.UncheckedIOException(e);
+    /**
+     * Schema to grammar: every schema compiled in turn for about two seconds unreported (the JIT
+     * warms up on all of them), then the median of 15 compiles per schema, and the median and
+     * maximum of those medians.
+     */
+    private static void schemaCompileTimes(List<String> files, PrintWriter out) {
+        List<String> texts = new ArrayList<>();
+        for (String file : files) {
+            try {
+                texts.add(Files.readString(Path.of(file), StandardCharsets.UTF_8));
+            } catch (java.io.IOException e) {
+                throw new java.io.UncheckedIOException(e);
+            }
         }
-        double[] t = new double[12];
-        for (int i = 0; i < t.length; i++) {
-            long a = System.nanoTime();
-            dev.espalier.schema.JsonSchemas.compile(text, dev.espalier.schema.SchemaOptions.defaults());
-            t[i] = (System.nanoTime() - a) / 1e6;
+        dev.espalier.schema.SchemaOptions options = dev.espalier.schema.SchemaOptions.defaults();
+        long warmUntil = System.nanoTime() + 2_000_000_000L;
+        for (int pass = 0; pass < 3 || System.nanoTime() < warmUntil; pass++) {
+            for (String text : texts) {
+                dev.espalier.schema.JsonSchemas.compile(text, options);
+            }
         }
-        double[] warm = Arrays.copyOfRange(t, 3, t.length);
-        return String.format("schema %s: compiled to a grammar in %.2f ms (median of %d; first %.1f ms)",
-                Path.of(file).getFileName(), percentile(warm, 50), warm.length, t[0]);
+        double[][] t = new double[texts.size()][15];
+        for (int round = 0; round < 15; round++) {
+            for (int i = 0; i < texts.size(); i++) {
+                long a = System.nanoTime();
+                dev.espalier.schema.JsonSchemas.compile(texts.get(i), options);
+                t[i][round] = (System.nanoTime() - a) / 1e6;
+            }
+        }
+        double[] medians = new double[texts.size()];
+        for (int i = 0; i < texts.size(); i++) {
+            medians[i] = percentile(t[i], 50);
+            out.printf("schema %s: compiled to a grammar in %.2f ms (median of 15, max %.2f)%n",
+                    Path.of(files.get(i)).getFileName(), medians[i], max(t[i]));
+        }
+        if (texts.size() > 1) {
+            out.printf("schemas: compile to a grammar, median %.2f ms and max %.2f ms over the %d schemas' medians%n",
+                    percentile(medians, 50), max(medians), texts.size());
+        }
     }
 
     private String grammarRow(String file, dev.espalier.grammar.Grammar g, Vocabulary v, boolean warmUp) {

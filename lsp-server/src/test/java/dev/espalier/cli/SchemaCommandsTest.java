@@ -174,10 +174,12 @@ class SchemaCommandsTest {
 
     @Test
     void benchMeasuresASchema() {
-        Run r = run("bench", "--schema", ROOTSTOCK, "--vocab", "cl100k", "--generations", "1", "--rounds", "2",
-                "--baseline-masks", "1");
+        Run r = run("bench", "--schema", ROOTSTOCK, "--schema", TREE, "--vocab", "cl100k", "--generations", "1",
+                "--rounds", "2", "--baseline-masks", "1");
         assertEquals(0, r.code(), r.err());
         assertTrue(r.out().contains("schema rootstock-spec.schema.json: compiled to a grammar in "), r.out());
+        assertTrue(r.out().contains("schema tree-record.schema.json: compiled to a grammar in "), r.out());
+        assertTrue(r.out().contains("schemas: compile to a grammar, median "), r.out());
         assertTrue(r.out().lines().anyMatch(l -> l.startsWith("rootstock-spec.schema.json") && l.contains("cl100k")), r.out());
     }
 }
