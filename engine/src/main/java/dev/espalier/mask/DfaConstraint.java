@@ -25,6 +25,8 @@ final class DfaConstraint implements Constraint {
     private final MaskCache shortCache;
     /** The tokens longer than {@link #SHORT} bytes, for the second part. */
     private final VocabularyTrie longTrie;
+    /** Vouches for whole subtrees of plain-text tokens during walks. */
+    private final LiveRuns runs;
 
     /** Token length (bytes) up to which the two-part computation caches masks per short class. */
     static final int SHORT = 12;
@@ -40,6 +42,7 @@ final class DfaConstraint implements Constraint {
         this.vocabulary = vocabulary;
         this.trie = vocabulary.trie();
         this.words = vocabulary.maskWords();
+        this.runs = new LiveRuns(dfa, trie.maxDepth());
         // both partitions come from one run of refinement rounds
         int[][] classes = trie.maxDepth() > SHORT
                 ? dfa.viableClasses(new int[] {SHORT, trie.maxDepth()})
@@ -127,27 +130,30 @@ final class DfaConstraint implements Constraint {
     }
 
     /**
-     * Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte; in
-     * two parts when {@link #shortClass} is set (short tokens from their cached mask, long tokens by a
-     * walk of their own trie). {@link #computeByWalk} is the one-walk twin.
+     * Walks the vocabulary trie alongside the automaton, pruning a subtree at its first dead byte and
+     * taking whole the subtrees {@link #runs} vouches for; in two parts when {@link #shortClass} is
+     * set (short tokens from their cached mask, long tokens by a walk of their own trie).
+     * {@link #computeByWalk} is the plain one-walk twin.
      */
     long[] compute(int state) {
         if (shortClass == null) {
-            return computeByWalk(state);
+            long[] m = new long[words];
+            trie.collect(dfa::step, runs, state, m, trie.maxDepth());
+            return m;
         }
         int key = shortClass[state];
         long[] shortMask = shortCache.get(key);
         if (shortMask == null) {
             shortMask = new long[words];
-            trie.collect(dfa::step, state, shortMask, SHORT);
+            trie.collect(dfa::step, runs, state, shortMask, SHORT);
             shortMask = shortCache.put(key, shortMask);
         }
         long[] m = shortMask.clone();
-        longTrie.collect(dfa::step, state, m);
+        longTrie.collect(dfa::step, runs, state, m, longTrie.maxDepth());
         return m;
     }
 
-    /** The mask of {@code state} by one walk of the whole trie. */
+    /** The mask of {@code state} by one plain walk of the whole trie, every node stepped. */
     long[] computeByWalk(int state) {
         long[] m = new long[words];
         trie.collect(dfa::step, state, m);

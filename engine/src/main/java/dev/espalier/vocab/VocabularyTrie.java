@@ -20,6 +20,15 @@ public final class VocabularyTrie {
     private final int maxDepth;
     /** depth << 8 | label, one array read per node on the walk. */
     private final int[] packed;
+    /**
+     * The ASCII bytes on the edges below node {@code i} (bit {@code b} of {@code belowLow} for
+     * {@code b < 64}, bit {@code b - 64} of {@code belowHigh} otherwise), and the longest path below
+     * it in bytes ({@code -1} when some byte below is not ASCII): what {@link #collect(Stepper,
+     * Coverage, int, long[], int)} asks a {@link Coverage} to vouch for.
+     */
+    private final long[] belowLow;
+    private final long[] belowHigh;
+    private final int[] height;
 
     private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
         this.packed = new int[label.length];
@@ -32,6 +41,34 @@ public final class VocabularyTrie {
         this.tokenStart = tokenStart;
         this.tokenIds = tokenIds;
         this.maxDepth = maxDepth;
+        int n = label.length;
+        this.belowLow = new long[n];
+        this.belowHigh = new long[n];
+        this.height = new int[n];
+        // children are at i + 1, skip(i + 1), ... up to skip(i); later nodes are done first
+        for (int i = n - 1; i >= 0; i--) {
+            long low = 0;
+            long high = 0;
+            int h = 0;
+            for (int c = i + 1; c < skip[i] && h >= 0; c = skip[c]) {
+                int b = label[c] & 0xFF;
+                if (b >= 128 || height[c] < 0) {
+                    h = -1;
+                    break;
+                }
+                if (b < 64) {
+                    low |= 1L << b;
+                } else {
+                    high |= 1L << (b - 64);
+                }
+                low |= belowLow[c];
+                high |= belowHigh[c];
+                h = Math.max(h, height[c] + 1);
+            }
+            belowLow[i] = low;
+            belowHigh[i] = high;
+            height[i] = h;
+        }
     }
 
     static VocabularyTrie build(byte[][] tokens, boolean[] special) {
@@ -118,6 +155,21 @@ public final class VocabularyTrie {
     }
 
     /**
+     * Vouches for whole subtrees of the trie during a walk (see
+     * {@link #collect(Stepper, Coverage, int, long[], int)}).
+     */
+    @FunctionalInterface
+    public interface Coverage {
+        /**
+         * Whether every byte string of 1 to {@code length} bytes, each byte an ASCII byte of the
+         * set {@code low}/{@code high} (bit {@code b} of {@code low} for {@code b < 64}, bit
+         * {@code b - 64} of {@code high} otherwise), surely leads from {@code state} to a live
+         * state. Answering false is always allowed; answering true wrongly breaks masks.
+         */
+        boolean keepsAlive(int state, long low, long high, int length);
+    }
+
+    /**
      * Sets in {@code mask} the bit of every token whose bytes lead {@code stepper} from
      * {@code start} to a live state, walking the trie in preorder and skipping a subtree at its first
      * dead byte.
@@ -157,6 +209,48 @@ public final class VocabularyTrie {
                 mask[id >>> 6] |= 1L << id;
             }
             i++;
+        }
+    }
+
+    /**
+     * As {@link #collect(Stepper, int, long[], int)}, and where {@code coverage} vouches for every
+     * string below a live node, that node's whole subtree is taken without stepping through it (its
+     * tokens are one range of the preorder token list). The mask is the same.
+     */
+    public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth) {
+        int[] at = new int[this.maxDepth + 1];
+        at[0] = start;
+        final int[] packed = this.packed;
+        final int[] skip = this.skip;
+        final int[] tokenStart = this.tokenStart;
+        final int[] tokenIds = this.tokenIds;
+        final int[] height = this.height;
+        int n = packed.length;
+        int i = 1;
+        while (i < n) {
+            int p = packed[i];
+            int d = p >>> 8;
+            if (d > maxDepth) {
+                i = skip[i];
+                continue;
+            }
+            int next = stepper.step(at[d - 1], p & 0xFF);
+            if (next < 0) {
+                i = skip[i];
+                continue;
+            }
+            int h = height[i];
+            int last = i + 1;
+            if (h > 0 && d + h <= maxDepth && coverage.keepsAlive(next, belowLow[i], belowHigh[i], h)) {
+                last = skip[i];
+            } else {
+                at[d] = next;
+            }
+            for (int k = tokenStart[i], end = tokenStart[last]; k < end; k++) {
+                int id = tokenIds[k];
+                mask[id >>> 6] |= 1L << id;
+            }
+            i = last;
         }
     }
 
@@ -207,7 +301,8 @@ public final class VocabularyTrie {
 
     /** Bytes used by the trie's arrays. */
     public long memoryBytes() {
-        return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length);
+        return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length
+                + height.length) + 8L * (belowLow.length + belowHigh.length);
     }
 
     /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */
