@@ -183,34 +183,11 @@ public final class VocabularyTrie {
      * only: deeper subtrees are not entered.
      */
     public void collect(Stepper stepper, int start, long[] mask, int maxDepth) {
-        int[] at = new int[this.maxDepth + 1];
-        at[0] = start;
-        final int[] packed = this.packed;
-        final int[] skip = this.skip;
-        final int[] tokenStart = this.tokenStart;
-        final int[] tokenIds = this.tokenIds;
-        int n = packed.length;
-        int i = 1;
-        while (i < n) {
-            int p = packed[i];
-            int d = p >>> 8;
-            if (d > maxDepth) {
-                i = skip[i];
-                continue;
-            }
-            int next = stepper.step(at[d - 1], p & 0xFF);
-            if (next < 0) {
-                i = skip[i];
-                continue;
-            }
-            at[d] = next;
-            for (int k = tokenStart[i], end = tokenStart[i + 1]; k < end; k++) {
-                int id = tokenIds[k];
-                mask[id >>> 6] |= 1L << id;
-            }
-            i++;
-        }
+        collect(stepper, NOTHING, start, mask, maxDepth);
     }
+
+    /** Vouches for nothing: every node is stepped. */
+    private static final Coverage NOTHING = (state, low, high, length) -> false;
 
     /**
      * As {@link #collect(Stepper, int, long[], int)}, and where {@code coverage} vouches for every
