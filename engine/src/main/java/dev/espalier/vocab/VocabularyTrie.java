@@ -29,6 +29,8 @@ public final class VocabularyTrie {
     private final long[] belowLow;
     private final long[] belowHigh;
     private final int[] height;
+    /** The length in bytes of the token at each position of the preorder token list. */
+    private final int[] tokenLength;
 
     private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
         this.packed = new int[label.length];
@@ -45,6 +47,10 @@ public final class VocabularyTrie {
         this.belowLow = new long[n];
         this.belowHigh = new long[n];
         this.height = new int[n];
+        this.tokenLength = new int[tokenIds.length];
+        for (int i = 0; i < n; i++) {
+            Arrays.fill(tokenLength, tokenStart[i], tokenStart[i + 1], depth[i]);
+        }
         // children are at i + 1, skip(i + 1), ... up to skip(i); later nodes are done first
         for (int i = n - 1; i >= 0; i--) {
             long low = 0;
@@ -155,18 +161,25 @@ public final class VocabularyTrie {
     }
 
     /**
-     * Vouches for whole subtrees of the trie during a walk (see
-     * {@link #collect(Stepper, Coverage, int, long[], int)}).
+     * Vouches for runs of bytes from a state during a walk (see
+     * {@link #collect(Stepper, Coverage, int, long[], int)}), so whole subtrees are decided at once.
+     * The byte sets are ASCII bytes: bit {@code b} of {@code low} for {@code b < 64}, bit
+     * {@code b - 64} of {@code high} otherwise.
      */
-    @FunctionalInterface
     public interface Coverage {
         /**
-         * Whether every byte string of 1 to {@code length} bytes, each byte an ASCII byte of the
-         * set {@code low}/{@code high} (bit {@code b} of {@code low} for {@code b < 64}, bit
-         * {@code b - 64} of {@code high} otherwise), surely leads from {@code state} to a live
-         * state. Answering false is always allowed; answering true wrongly breaks masks.
+         * A length {@code L} such that every byte string of 1 to {@code L} bytes over the set surely
+         * leads from {@code state} to a live state ({@link Integer#MAX_VALUE} for every length).
+         * Answering too little is always allowed (0 vouches for nothing); too much breaks masks.
          */
-        boolean keepsAlive(int state, long low, long high, int length);
+        int liveLength(int state, long low, long high);
+
+        /**
+         * Whether every byte string of {@code length + 1} bytes over the set surely leads from
+         * {@code state} to a dead state, where {@code length} is what {@link #liveLength} answered
+         * for the same state and set. Answering false is always allowed.
+         */
+        boolean diesAfter(int state, long low, long high, int length);
     }
 
     /**
@@ -187,12 +200,23 @@ public final class VocabularyTrie {
     }
 
     /** Vouches for nothing: every node is stepped. */
-    private static final Coverage NOTHING = (state, low, high, length) -> false;
+    private static final Coverage NOTHING = new Coverage() {
+        @Override
+        public int liveLength(int state, long low, long high) {
+            return 0;
+        }
+
+        @Override
+        public boolean diesAfter(int state, long low, long high, int length) {
+            return false;
+        }
+    };
 
     /**
-     * As {@link #collect(Stepper, int, long[], int)}, and where {@code coverage} vouches for every
-     * string below a live node, that node's whole subtree is taken without stepping through it (its
-     * tokens are one range of the preorder token list). The mask is the same.
+     * As {@link #collect(Stepper, int, long[], int)}, but where {@code coverage} decides every
+     * string below a live node, that node's subtree is taken without stepping through it: all its
+     * tokens when every string below stays alive (they are one range of the preorder token list), or
+     * the tokens up to the live length when every longer string dies. The mask is the same.
      */
     public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth) {
         int[] at = new int[this.maxDepth + 1];
@@ -217,17 +241,37 @@ public final class VocabularyTrie {
                 continue;
             }
             int h = height[i];
-            int last = i + 1;
-            if (h > 0 && d + h <= maxDepth && coverage.keepsAlive(next, belowLow[i], belowHigh[i], h)) {
-                last = skip[i];
-            } else {
-                at[d] = next;
+            if (h > 0 && d < maxDepth) {
+                int live = coverage.liveLength(next, belowLow[i], belowHigh[i]);
+                int limit = live >= h ? d + h
+                        : live > 0 && coverage.diesAfter(next, belowLow[i], belowHigh[i], live) ? d + live : -1;
+                if (limit >= 0) {
+                    int end = tokenStart[skip[i]];
+                    if (limit <= maxDepth && limit == d + h) {
+                        for (int k = tokenStart[i]; k < end; k++) {
+                            int id = tokenIds[k];
+                            mask[id >>> 6] |= 1L << id;
+                        }
+                    } else {
+                        limit = Math.min(limit, maxDepth);
+                        final int[] tokenLength = this.tokenLength;
+                        for (int k = tokenStart[i]; k < end; k++) {
+                            if (tokenLength[k] <= limit) {
+                                int id = tokenIds[k];
+                                mask[id >>> 6] |= 1L << id;
+                            }
+                        }
+                    }
+                    i = skip[i];
+                    continue;
+                }
             }
-            for (int k = tokenStart[i], end = tokenStart[last]; k < end; k++) {
+            at[d] = next;
+            for (int k = tokenStart[i], end = tokenStart[i + 1]; k < end; k++) {
                 int id = tokenIds[k];
                 mask[id >>> 6] |= 1L << id;
             }
-            i = last;
+            i++;
         }
     }
 
@@ -279,7 +323,7 @@ public final class VocabularyTrie {
     /** Bytes used by the trie's arrays. */
     public long memoryBytes() {
         return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length
-                + height.length) + 8L * (belowLow.length + belowHigh.length);
+                + height.length + tokenLength.length) + 8L * (belowLow.length + belowHigh.length);
     }
 
     /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */

@@ -1,5 +1,6 @@
 package dev.espalier.mask;
 
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -10,8 +11,8 @@ import java.util.Random;
 import org.junit.jupiter.api.Test;
 
 /**
- * {@link LiveRuns} against enumeration of every string it vouches for (small byte sets, short
- * lengths), and the runs it must find in string bodies and bounded counts.
+ * {@link LiveRuns} against enumeration of every string it vouches for, alive or dead (small byte
+ * sets, short lengths), and the runs it must find in string bodies and bounded counts.
  */
 class LiveRunsTest {
 
@@ -41,10 +42,27 @@ class LiveRunsTest {
         return true;
     }
 
+    /** Whether every string of exactly {@code length} bytes over {@code set} leads from {@code state} to the dead state. */
+    private static boolean allDead(ByteDfa d, int state, int[] set, int length) {
+        if (state == ByteDfa.DEAD) {
+            return true;
+        }
+        if (length == 0) {
+            return false;
+        }
+        for (int b : set) {
+            if (!allDead(d, d.step(state, b), set, length - 1)) {
+                return false;
+            }
+        }
+        return true;
+    }
+
     @Test
-    void vouchesOnlyForRunsThatStayAlive() {
+    void vouchesOnlyForRunsThatStayAliveOrDie() {
         Random rnd = new Random(7);
         int vouched = 0;
+        int dying = 0;
         for (String pattern : List.of("[a-z ]{0,6}x", "\"([^\"\\\\]|\\\\.){2,9}\"", "(ab|c){0,4}x", "[0-9]{1,5}(\\.[0-9]{0,3})?",
                 "[a-z.]{1,5}@[a-z]{1,4}\\.(com|org)", "(x|yz)*")) {
             ByteDfa d = dfa(pattern);
@@ -63,17 +81,23 @@ class LiveRunsTest {
                             high |= 1L << (set[i] - 64);
                         }
                     }
-                    int length = 1 + rnd.nextInt(6);
-                    if (runs.keepsAlive(state, low, high, length)) {
+                    int live = runs.liveLength(state, low, high);
+                    int st = state;
+                    if (live > 0) {
                         vouched++;
-                        int st = state;
-                        assertTrue(allAlive(d, state, set, length),
+                        assertTrue(allAlive(d, state, set, Math.min(live, 7)),
                                 () -> pattern + ": state " + st + " vouched for a run that dies");
+                    }
+                    if (live < 7 && runs.diesAfter(state, low, high, live)) {
+                        dying++;
+                        assertTrue(allDead(d, state, set, live + 1),
+                                () -> pattern + ": state " + st + " said runs of " + (live + 1) + " die");
                     }
                 }
             }
         }
         assertTrue(vouched > 100, "runs vouched for: " + vouched);
+        assertTrue(dying > 50, "runs said to die: " + dying);
     }
 
     @Test
@@ -82,17 +106,20 @@ class LiveRunsTest {
         int inside = body.step(body.start(), '"');
         long[] letters = bits("abc xyz,.:");
         LiveRuns runs = new LiveRuns(body, 128);
-        assertTrue(runs.keepsAlive(inside, letters[0], letters[1], 128));
+        assertEquals(Integer.MAX_VALUE, runs.liveLength(inside, letters[0], letters[1]));
         long[] quote = bits("ab\"");
-        assertFalse(runs.keepsAlive(inside, quote[0], quote[1], 2));
+        assertEquals(0, runs.liveLength(inside, quote[0], quote[1]));
 
         ByteDfa bounded = dfa("[a-z]{0,5}!");
         LiveRuns counts = new LiveRuns(bounded, 16);
         long[] az = bits("abcdefghijklmnopqrstuvwxyz");
-        assertTrue(counts.keepsAlive(bounded.start(), az[0], az[1], 5));
-        assertFalse(counts.keepsAlive(bounded.start(), az[0], az[1], 6));
+        assertEquals(5, counts.liveLength(bounded.start(), az[0], az[1]));
+        assertTrue(counts.diesAfter(bounded.start(), az[0], az[1], 5));
         int two = bounded.step(bounded.step(bounded.start(), 'q'), 'r');
-        assertTrue(counts.keepsAlive(two, az[0], az[1], 3));
-        assertFalse(counts.keepsAlive(two, az[0], az[1], 4));
+        assertEquals(3, counts.liveLength(two, az[0], az[1]));
+        assertTrue(counts.diesAfter(two, az[0], az[1], 3));
+        long[] bang = bits("ab!");
+        assertEquals(0, counts.liveLength(two, bang[0], bang[1]));
+        assertFalse(counts.diesAfter(two, bang[0], bang[1], 0));
     }
 }
