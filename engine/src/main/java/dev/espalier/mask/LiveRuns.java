@@ -1,23 +1,27 @@
 package dev.espalier.mask;
 
 import dev.espalier.automaton.ByteDfa;
+import dev.espalier.automaton.Utf8;
 import dev.espalier.vocab.VocabularyTrie;
 
 import java.util.Arrays;
+import java.util.List;
 
 /**
- * Per automaton state, the ASCII byte sets over which every run of a given length surely stays
- * alive, and where such runs surely die one byte later, so a trie walk can decide a whole subtree of
- * plain-text tokens at once (inside a JSON string, nearly every subtree below the first byte or two;
- * near a length bound, the tokens up to the bound).
+ * Per automaton state, the character sets over which every run of a given length surely stays
+ * alive, and where such runs surely die one character later, so a trie walk can decide a whole
+ * subtree of text tokens at once (inside a JSON string, nearly every subtree below the first byte or
+ * two; near a length bound, the tokens up to the bound).
  *
  * <p>From state {@code q0}, let {@code q1} be the state most ASCII bytes lead to and {@code T(q0)}
- * those bytes, and so on along {@code q1, q2, ...}. Then {@code I(k) = T(q0) ∩ ... ∩ T(q(k-1))}
- * is a set every string of at most {@code k} bytes over which leads through {@code q1 ... qk}, all
- * alive. The sets shrink with {@code k}; each state keeps the lengths where they change, and for
- * each such length {@code k} the ASCII bytes that are dead in {@code qk}: a string over them of
- * {@code k + 1} bytes dies. States are worked out on first use; the object is shared by the threads
- * that compute masks.
+ * those bytes, together with all characters from U+0080 up when every well-formed UTF-8 encoding of
+ * them leads to {@code q1} as well; and so on along {@code q1, q2, ...}. Then
+ * {@code I(k) = T(q0) ∩ ... ∩ T(q(k-1))} is a set every string of at most {@code k} characters
+ * over which leads through {@code q1 ... qk}, all alive (a last character cut short stops between
+ * two of them, alive as well). The sets shrink with {@code k}; each state keeps the lengths where
+ * they change, and for each such length {@code k} the ASCII bytes that are dead in {@code qk} and
+ * whether every lead byte is: a string over them of {@code k} characters and one more byte dies.
+ * States are worked out on first use; the object is shared by the threads that compute masks.
  */
 final class LiveRuns implements VocabularyTrie.Coverage {
 
@@ -29,32 +33,47 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     private final int[] majors;
     private final long[] majorLows;
     private final long[] majorHighs;
+    private final boolean[] majorMultibyte;
     private final long[] deadLows;
     private final long[] deadHighs;
+    private final boolean[] leadsDead;
+    /**
+     * The UTF-8 encodings of U+0080..U+10FFFF as byte-range sequences, each range cut down to one
+     * byte per byte class of the automaton (bytes of a class lead alike from every state).
+     */
+    private final int[][][] multibyteClasses;
     private final int[] target = new int[128];
     private final int[] targets = new int[128];
     private final int[] counts = new int[128];
 
     private static final int UNKNOWN = -2;
+    /** Most states a multibyte check follows side by side before it gives up (answering no). */
+    private static final int FRONTIER = 64;
 
     /**
-     * The runs of one state: {@code I(k)} is {@code low[j]/high[j]} for the first {@code j} with
-     * {@code k <= upTo[j]}, empty past the last; {@code deadLow[j]/deadHigh[j]} are the dead ASCII
-     * bytes of the state reached after {@code upTo[j]} bytes.
+     * The runs of one state: {@code I(k)} is {@code low[j]/high[j]/multibyte[j]} for the first
+     * {@code j} with {@code k <= upTo[j]}, empty past the last; {@code deadLow[j]/deadHigh[j]} are
+     * the dead ASCII bytes of the state reached after {@code upTo[j]} characters and
+     * {@code leadsDead[j]} whether every lead byte is dead there.
      */
     private static final class Runs {
         final int[] upTo;
         final long[] low;
         final long[] high;
+        final boolean[] multibyte;
         final long[] deadLow;
         final long[] deadHigh;
+        final boolean[] leadsDead;
 
-        Runs(int count, int[] upTo, long[] low, long[] high, long[] deadLow, long[] deadHigh) {
+        Runs(int count, int[] upTo, long[] low, long[] high, boolean[] multibyte, long[] deadLow, long[] deadHigh,
+                boolean[] leadsDead) {
             this.upTo = Arrays.copyOf(upTo, count);
             this.low = Arrays.copyOf(low, count);
             this.high = Arrays.copyOf(high, count);
+            this.multibyte = Arrays.copyOf(multibyte, count);
             this.deadLow = Arrays.copyOf(deadLow, count);
             this.deadHigh = Arrays.copyOf(deadHigh, count);
+            this.leadsDead = Arrays.copyOf(leadsDead, count);
         }
     }
 
@@ -70,8 +89,28 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         Arrays.fill(majors, UNKNOWN);
         this.majorLows = new long[n];
         this.majorHighs = new long[n];
+        this.majorMultibyte = new boolean[n];
         this.deadLows = new long[n];
         this.deadHighs = new long[n];
+        this.leadsDead = new boolean[n];
+        List<Utf8.ByteRanges> ranges = Utf8.ranges(0x80, 0x10FFFF);
+        this.multibyteClasses = new int[ranges.size()][][];
+        for (int r = 0; r < ranges.size(); r++) {
+            Utf8.ByteRanges range = ranges.get(r);
+            multibyteClasses[r] = new int[range.length()][];
+            for (int pos = 0; pos < range.length(); pos++) {
+                boolean[] seen = new boolean[256];
+                int[] bytes = new int[range.hi()[pos] - range.lo()[pos] + 1];
+                int count = 0;
+                for (int b = range.lo()[pos]; b <= range.hi()[pos]; b++) {
+                    if (!seen[dfa.classOf(b)]) {
+                        seen[dfa.classOf(b)] = true;
+                        bytes[count++] = b;
+                    }
+                }
+                multibyteClasses[r][pos] = Arrays.copyOf(bytes, count);
+            }
+        }
     }
 
     private Runs of(int state) {
@@ -80,12 +119,12 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     }
 
     @Override
-    public int liveLength(int state, long low, long high) {
+    public int liveLength(int state, long low, long high, boolean multibyte) {
         Runs r = of(state);
         int[] upTo = r.upTo;
         int live = 0;
         for (int j = 0; j < upTo.length; j++) {
-            if ((low & ~r.low[j]) != 0 || (high & ~r.high[j]) != 0) {
+            if ((low & ~r.low[j]) != 0 || (high & ~r.high[j]) != 0 || multibyte && !r.multibyte[j]) {
                 break;
             }
             live = upTo[j];
@@ -94,13 +133,14 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     }
 
     @Override
-    public boolean diesAfter(int state, long low, long high, int length) {
+    public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
         Runs r = of(state);
         int[] upTo = r.upTo;
         for (int j = 0; j < upTo.length && upTo[j] <= length; j++) {
             if (upTo[j] == length) {
-                return (low & ~r.low[j]) == 0 && (high & ~r.high[j]) == 0
-                        && (low & ~r.deadLow[j]) == 0 && (high & ~r.deadHigh[j]) == 0;
+                return (low & ~r.low[j]) == 0 && (high & ~r.high[j]) == 0 && (!multibyte || r.multibyte[j])
+                        && (low & ~r.deadLow[j]) == 0 && (high & ~r.deadHigh[j]) == 0
+                        && (!multibyte || r.leadsDead[j]);
             }
         }
         return false;
@@ -114,60 +154,73 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         int[] upTo = new int[cap];
         long[] lows = new long[cap];
         long[] highs = new long[cap];
+        boolean[] multis = new boolean[cap];
         long[] deadLowAt = new long[cap];
         long[] deadHighAt = new long[cap];
+        boolean[] leadsDeadAt = new boolean[cap];
         int count = 0;
         long low = -1L;
         long high = -1L;
+        boolean multi = true;
         int q = state;
         for (int k = 1; k <= longest; k++) {
             int major = major(q);
             long nextLow = low & majorLows[q];
             long nextHigh = high & majorHighs[q];
+            boolean nextMulti = multi && majorMultibyte[q];
+            boolean nextEmpty = (nextLow | nextHigh) == 0 && !nextMulti;
             boolean forever = major == q || k == longest;
-            // I(k - 1) ends here, or (a loop on the same bytes) I(k) holds for every length
-            boolean ends = k > 1 && (nextLow != low || nextHigh != high);
-            if (ends || forever && (nextLow | nextHigh) != 0) {
+            // I(k - 1) ends here, or (a loop on the same characters) I(k) holds for every length
+            boolean ends = k > 1 && (nextLow != low || nextHigh != high || nextMulti != multi);
+            if (ends || forever && !nextEmpty) {
                 if (count + 2 > cap) {
                     cap *= 2;
                     upTo = Arrays.copyOf(upTo, cap);
                     lows = Arrays.copyOf(lows, cap);
                     highs = Arrays.copyOf(highs, cap);
+                    multis = Arrays.copyOf(multis, cap);
                     deadLowAt = Arrays.copyOf(deadLowAt, cap);
                     deadHighAt = Arrays.copyOf(deadHighAt, cap);
+                    leadsDeadAt = Arrays.copyOf(leadsDeadAt, cap);
                 }
                 if (ends) {
                     upTo[count] = k - 1;
                     lows[count] = low;
                     highs[count] = high;
+                    multis[count] = multi;
                     deadLowAt[count] = deadLows[q];
                     deadHighAt[count] = deadHighs[q];
+                    leadsDeadAt[count] = leadsDead[q];
                     count++;
                 }
-                if (forever && (nextLow | nextHigh) != 0) {
+                if (forever && !nextEmpty) {
                     upTo[count] = Integer.MAX_VALUE;
                     lows[count] = nextLow;
                     highs[count] = nextHigh;
+                    multis[count] = nextMulti;
                     count++;
                     break;
                 }
             }
             low = nextLow;
             high = nextHigh;
-            if ((low | high) == 0) {
+            multi = nextMulti;
+            if (nextEmpty) {
                 break;
             }
             q = major;
         }
-        Runs r = new Runs(count, upTo, lows, highs, deadLowAt, deadHighAt);
+        Runs r = new Runs(count, upTo, lows, highs, multis, deadLowAt, deadHighAt, leadsDeadAt);
         runs[state] = r;
         return r;
     }
 
     /**
      * The state most ASCII bytes lead to from {@code q} ({@link ByteDfa#DEAD} when none does), with
-     * those bytes in {@link #majorLows}/{@link #majorHighs} and the dead ASCII bytes in
-     * {@link #deadLows}/{@link #deadHighs}; worked out once per state. Callers hold the lock.
+     * those bytes in {@link #majorLows}/{@link #majorHighs}, whether every character from U+0080 up
+     * leads there too in {@link #majorMultibyte}, and the dead ASCII bytes and whether every lead
+     * byte is dead in {@link #deadLows}/{@link #deadHighs}/{@link #leadsDead}; worked out once per
+     * state. Callers hold the lock.
      */
     private int major(int q) {
         if (majors[q] != UNKNOWN) {
@@ -215,11 +268,56 @@ final class LiveRuns implements VocabularyTrie.Coverage {
                 }
             }
         }
+        boolean allLeadsDead = true;
+        for (int b = 0xC2; b <= 0xF4 && allLeadsDead; b++) {
+            allLeadsDead = dfa.step(q, b) == ByteDfa.DEAD;
+        }
         majors[q] = major;
         majorLows[q] = low;
         majorHighs[q] = high;
+        majorMultibyte[q] = major != ByteDfa.DEAD && multibyteLeadTo(q, major);
         deadLows[q] = deadLow;
         deadHighs[q] = deadHigh;
+        leadsDead[q] = allLeadsDead;
         return major;
+    }
+
+    /** Whether every UTF-8 encoding of a character from U+0080 up leads from {@code q} to {@code to}. */
+    private boolean multibyteLeadTo(int q, int to) {
+        int[] frontier = new int[FRONTIER];
+        int[] next = new int[FRONTIER];
+        for (int[][] range : multibyteClasses) {
+            frontier[0] = q;
+            int size = 1;
+            for (int[] bytes : range) {
+                int nextSize = 0;
+                for (int f = 0; f < size; f++) {
+                    for (int b : bytes) {
+                        int t = dfa.step(frontier[f], b);
+                        if (t == ByteDfa.DEAD) {
+                            return false;
+                        }
+                        int j = 0;
+                        while (j < nextSize && next[j] != t) {
+                            j++;
+                        }
+                        if (j == nextSize) {
+                            if (nextSize == FRONTIER) {
+                                return false;
+                            }
+                            next[nextSize++] = t;
+                        }
+                    }
+                }
+                int[] swap = frontier;
+                frontier = next;
+                next = swap;
+                size = nextSize;
+            }
+            if (size != 1 || frontier[0] != to) {
+                return false;
+            }
+        }
+        return true;
     }
 }

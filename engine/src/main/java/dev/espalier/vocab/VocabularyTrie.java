@@ -21,16 +21,24 @@ public final class VocabularyTrie {
     /** depth << 8 | label, one array read per node on the walk. */
     private final int[] packed;
     /**
-     * The ASCII bytes on the edges below node {@code i} (bit {@code b} of {@code belowLow} for
-     * {@code b < 64}, bit {@code b - 64} of {@code belowHigh} otherwise), and the longest path below
-     * it in bytes ({@code -1} when some byte below is not ASCII): what {@link #collect(Stepper,
-     * Coverage, int, long[], int)} asks a {@link Coverage} to vouch for.
+     * What {@link #collect(Stepper, Coverage, int, long[], int)} asks a {@link Coverage} to vouch
+     * for, per node {@code i}: the ASCII bytes on the edges below it (bit {@code b} of
+     * {@code belowLow} for {@code b < 64}, bit {@code b - 64} of {@code belowHigh} otherwise),
+     * whether some byte below is not ASCII, the longest path below it in bytes ({@code height}) and
+     * in characters ({@code chars}: bytes that start a UTF-8 character). {@code chars} is
+     * {@code -1} when the path to the node ends inside a character or some string below is not a
+     * well-formed UTF-8 prefix from there: such subtrees are always stepped through.
      */
     private final long[] belowLow;
     private final long[] belowHigh;
+    private final boolean[] multibyte;
     private final int[] height;
-    /** The length in bytes of the token at each position of the preorder token list. */
+    private final int[] chars;
+    /** Characters started on the path to each node. */
+    private final int[] starts;
+    /** The length in bytes, and the characters started, of the token at each position of the preorder token list. */
     private final int[] tokenLength;
+    private final int[] tokenChars;
 
     private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
         this.packed = new int[label.length];
@@ -46,34 +54,116 @@ public final class VocabularyTrie {
         int n = label.length;
         this.belowLow = new long[n];
         this.belowHigh = new long[n];
+        this.multibyte = new boolean[n];
         this.height = new int[n];
+        this.chars = new int[n];
+        this.starts = new int[n];
         this.tokenLength = new int[tokenIds.length];
+        this.tokenChars = new int[tokenIds.length];
+        // preorder: the parent of node i is the last node seen at depth(i) - 1
+        byte[] pending = new byte[n];
+        int[] pathPending = new int[maxDepth + 1];
+        int[] pathStarts = new int[maxDepth + 1];
+        for (int i = 1; i < n; i++) {
+            int d = depth[i];
+            int b = label[i] & 0xFF;
+            int before = pathPending[d - 1];
+            pending[i] = (byte) (before < 0 ? -1 : utf8Step(before, b));
+            starts[i] = pathStarts[d - 1] + ((b & 0xC0) != 0x80 ? 1 : 0);
+            pathPending[d] = pending[i];
+            pathStarts[d] = starts[i];
+        }
         for (int i = 0; i < n; i++) {
             Arrays.fill(tokenLength, tokenStart[i], tokenStart[i + 1], depth[i]);
+            Arrays.fill(tokenChars, tokenStart[i], tokenStart[i + 1], starts[i]);
         }
-        // children are at i + 1, skip(i + 1), ... up to skip(i); later nodes are done first
+        // well[i]: bit u set when every string below node i is a well-formed UTF-8 prefix from
+        // pending state u; children are at i + 1, skip(i + 1), ... up to skip(i), done first
+        short[] well = new short[n];
+        int[] charHeight = new int[n];
         for (int i = n - 1; i >= 0; i--) {
             long low = 0;
             long high = 0;
+            boolean multi = false;
             int h = 0;
-            for (int c = i + 1; c < skip[i] && h >= 0; c = skip[c]) {
+            int ch = 0;
+            int w = (1 << UTF8_STATES) - 1;
+            for (int c = i + 1; c < skip[i]; c = skip[c]) {
                 int b = label[c] & 0xFF;
-                if (b >= 128 || height[c] < 0) {
-                    h = -1;
-                    break;
-                }
                 if (b < 64) {
                     low |= 1L << b;
-                } else {
+                } else if (b < 128) {
                     high |= 1L << (b - 64);
+                } else {
+                    multi = true;
                 }
                 low |= belowLow[c];
                 high |= belowHigh[c];
+                multi |= multibyte[c];
                 h = Math.max(h, height[c] + 1);
+                ch = Math.max(ch, starts[c] - starts[i] + charHeight[c]);
+                int ok = 0;
+                for (int u = 0; u < UTF8_STATES; u++) {
+                    int v = utf8Step(u, b);
+                    if (v >= 0 && (well[c] >> v & 1) != 0) {
+                        ok |= 1 << u;
+                    }
+                }
+                w &= ok;
             }
+            well[i] = (short) w;
             belowLow[i] = low;
             belowHigh[i] = high;
+            multibyte[i] = multi;
             height[i] = h;
+            charHeight[i] = ch;
+            chars[i] = pending[i] == 0 && (w & 1) != 0 ? ch : -1;
+        }
+    }
+
+    /** States of the UTF-8 well-formedness automaton: 0 at a character boundary, 1..7 inside one. */
+    private static final int UTF8_STATES = 8;
+
+    /**
+     * The well-formed UTF-8 byte sequences of the Unicode Standard (chapter 3, table 3-7) as an
+     * automaton: the state after byte {@code b} in state {@code u}, or -1 when no well-formed
+     * sequence continues so. States: 0 boundary; 1, 2, 3 that many continuation bytes 80..BF due;
+     * 4 after E0 (A0..BF, then one more); 5 after ED (80..9F, then one more); 6 after F0 (90..BF, then
+     * two more); 7 after F4 (80..8F, then two more).
+     */
+    static int utf8Step(int u, int b) {
+        switch (u) {
+            case 0:
+                if (b < 0x80) {
+                    return 0;
+                } else if (b >= 0xC2 && b <= 0xDF) {
+                    return 1;
+                } else if (b == 0xE0) {
+                    return 4;
+                } else if (b == 0xED) {
+                    return 5;
+                } else if (b >= 0xE1 && b <= 0xEF) {
+                    return 2;
+                } else if (b == 0xF0) {
+                    return 6;
+                } else if (b == 0xF4) {
+                    return 7;
+                } else if (b >= 0xF1 && b <= 0xF3) {
+                    return 3;
+                }
+                return -1;
+            case 1:
+            case 2:
+            case 3:
+                return b >= 0x80 && b <= 0xBF ? u - 1 : -1;
+            case 4:
+                return b >= 0xA0 && b <= 0xBF ? 1 : -1;
+            case 5:
+                return b >= 0x80 && b <= 0x9F ? 1 : -1;
+            case 6:
+                return b >= 0x90 && b <= 0xBF ? 2 : -1;
+            default:
+                return b >= 0x80 && b <= 0x8F ? 2 : -1;
         }
     }
 
@@ -161,25 +251,27 @@ public final class VocabularyTrie {
     }
 
     /**
-     * Vouches for runs of bytes from a state during a walk (see
+     * Vouches for runs of characters from a state during a walk (see
      * {@link #collect(Stepper, Coverage, int, long[], int)}), so whole subtrees are decided at once.
-     * The byte sets are ASCII bytes: bit {@code b} of {@code low} for {@code b < 64}, bit
-     * {@code b - 64} of {@code high} otherwise.
+     * A run is a UTF-8 string of characters, each an ASCII byte of the set (bit {@code b} of
+     * {@code low} for {@code b < 64}, bit {@code b - 64} of {@code high} otherwise) or, when
+     * {@code multibyte} is set, any well-formed encoding of a character from U+0080 up; the last
+     * character may be cut short.
      */
     public interface Coverage {
         /**
-         * A length {@code L} such that every byte string of 1 to {@code L} bytes over the set surely
-         * leads from {@code state} to a live state ({@link Integer#MAX_VALUE} for every length).
-         * Answering too little is always allowed (0 vouches for nothing); too much breaks masks.
+         * A length {@code L} such that every run of 1 to {@code L} characters surely leads from
+         * {@code state} to a live state ({@link Integer#MAX_VALUE} for every length). Answering
+         * too little is always allowed (0 vouches for nothing); too much breaks masks.
          */
-        int liveLength(int state, long low, long high);
+        int liveLength(int state, long low, long high, boolean multibyte);
 
         /**
-         * Whether every byte string of {@code length + 1} bytes over the set surely leads from
-         * {@code state} to a dead state, where {@code length} is what {@link #liveLength} answered
-         * for the same state and set. Answering false is always allowed.
+         * Whether every run of {@code length} characters followed by the first byte of one more
+         * surely leads from {@code state} to a dead state, where {@code length} is what
+         * {@link #liveLength} answered for the same state and set. Answering false is always allowed.
          */
-        boolean diesAfter(int state, long low, long high, int length);
+        boolean diesAfter(int state, long low, long high, boolean multibyte, int length);
     }
 
     /**
@@ -202,12 +294,12 @@ public final class VocabularyTrie {
     /** Vouches for nothing: every node is stepped. */
     private static final Coverage NOTHING = new Coverage() {
         @Override
-        public int liveLength(int state, long low, long high) {
+        public int liveLength(int state, long low, long high, boolean multibyte) {
             return 0;
         }
 
         @Override
-        public boolean diesAfter(int state, long low, long high, int length) {
+        public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
             return false;
         }
     };
@@ -216,7 +308,8 @@ public final class VocabularyTrie {
      * As {@link #collect(Stepper, int, long[], int)}, but where {@code coverage} decides every
      * string below a live node, that node's subtree is taken without stepping through it: all its
      * tokens when every string below stays alive (they are one range of the preorder token list), or
-     * the tokens up to the live length when every longer string dies. The mask is the same.
+     * the tokens up to the live length in characters when every longer string dies. The mask is the
+     * same.
      */
     public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth) {
         int[] at = new int[this.maxDepth + 1];
@@ -225,7 +318,7 @@ public final class VocabularyTrie {
         final int[] skip = this.skip;
         final int[] tokenStart = this.tokenStart;
         final int[] tokenIds = this.tokenIds;
-        final int[] height = this.height;
+        final int[] chars = this.chars;
         int n = packed.length;
         int i = 1;
         while (i < n) {
@@ -240,23 +333,25 @@ public final class VocabularyTrie {
                 i = skip[i];
                 continue;
             }
-            int h = height[i];
-            if (h > 0 && d < maxDepth) {
-                int live = coverage.liveLength(next, belowLow[i], belowHigh[i]);
-                int limit = live >= h ? d + h
-                        : live > 0 && coverage.diesAfter(next, belowLow[i], belowHigh[i], live) ? d + live : -1;
-                if (limit >= 0) {
+            int ch = chars[i];
+            if (ch > 0 && d < maxDepth) {
+                boolean multi = multibyte[i];
+                int live = coverage.liveLength(next, belowLow[i], belowHigh[i], multi);
+                int charLimit = live >= ch ? Integer.MAX_VALUE
+                        : live > 0 && coverage.diesAfter(next, belowLow[i], belowHigh[i], multi, live)
+                                ? starts[i] + live : -1;
+                if (charLimit >= 0) {
                     int end = tokenStart[skip[i]];
-                    if (limit <= maxDepth && limit == d + h) {
+                    if (charLimit == Integer.MAX_VALUE && d + height[i] <= maxDepth) {
                         for (int k = tokenStart[i]; k < end; k++) {
                             int id = tokenIds[k];
                             mask[id >>> 6] |= 1L << id;
                         }
                     } else {
-                        limit = Math.min(limit, maxDepth);
                         final int[] tokenLength = this.tokenLength;
+                        final int[] tokenChars = this.tokenChars;
                         for (int k = tokenStart[i]; k < end; k++) {
-                            if (tokenLength[k] <= limit) {
+                            if (tokenLength[k] <= maxDepth && tokenChars[k] <= charLimit) {
                                 int id = tokenIds[k];
                                 mask[id >>> 6] |= 1L << id;
                             }
@@ -323,7 +418,8 @@ public final class VocabularyTrie {
     /** Bytes used by the trie's arrays. */
     public long memoryBytes() {
         return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length
-                + height.length + tokenLength.length) + 8L * (belowLow.length + belowHigh.length);
+                + height.length + chars.length + starts.length + tokenLength.length + tokenChars.length)
+                + 8L * (belowLow.length + belowHigh.length) + multibyte.length;
     }
 
     /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */
