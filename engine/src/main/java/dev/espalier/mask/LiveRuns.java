@@ -27,6 +27,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
 
     private final ByteDfa dfa;
     private final int longest;
+    private final boolean avoidAccepting;
     /** Per state, null until first asked. */
     private final Runs[] runs;
     /** Per state, see {@link #major}; touched under the lock only. */
@@ -81,8 +82,19 @@ final class LiveRuns implements VocabularyTrie.Coverage {
      * @param longest the longest run ever asked about (the vocabulary's longest token)
      */
     LiveRuns(ByteDfa dfa, int longest) {
+        this(dfa, longest, false);
+    }
+
+    /**
+     * @param longest the longest run ever asked about (the vocabulary's longest token)
+     * @param avoidAccepting whether the runs vouched for must also pass through no accepting state
+     *     after their first byte, mid-character states included (for walks that must see every node
+     *     where a lexeme may end)
+     */
+    LiveRuns(ByteDfa dfa, int longest, boolean avoidAccepting) {
         this.dfa = dfa;
         this.longest = longest;
+        this.avoidAccepting = avoidAccepting;
         int n = dfa.stateCount();
         this.runs = new Runs[n];
         this.majors = new int[n];
@@ -272,10 +284,11 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         for (int b = 0xC2; b <= 0xF4 && allLeadsDead; b++) {
             allLeadsDead = dfa.step(q, b) == ByteDfa.DEAD;
         }
+        boolean open = major != ByteDfa.DEAD && !(avoidAccepting && dfa.accepts(major));
         majors[q] = major;
-        majorLows[q] = low;
-        majorHighs[q] = high;
-        majorMultibyte[q] = major != ByteDfa.DEAD && multibyteLeadTo(q, major);
+        majorLows[q] = open ? low : 0;
+        majorHighs[q] = open ? high : 0;
+        majorMultibyte[q] = open && multibyteLeadTo(q, major);
         deadLows[q] = deadLow;
         deadHighs[q] = deadHigh;
         leadsDead[q] = allLeadsDead;
@@ -294,7 +307,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
                 for (int f = 0; f < size; f++) {
                     for (int b : bytes) {
                         int t = dfa.step(frontier[f], b);
-                        if (t == ByteDfa.DEAD) {
+                        if (t == ByteDfa.DEAD || avoidAccepting && t != to && dfa.accepts(t)) {
                             return false;
                         }
                         int j = 0;

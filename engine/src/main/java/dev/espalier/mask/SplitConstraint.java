@@ -35,6 +35,8 @@ final class SplitConstraint extends ChartConstraint {
     private final int[] insideOffset;
     private final int[] boundaryOffset;
     private final MaskCache cache;
+    /** Per terminal: vouches for subtrees that stay inside a lexeme without its end. */
+    private final LiveRuns[] runs;
     /** The mask of the initial chart, once computed (a benign race: any thread computes the same). */
     private volatile long[] startMask;
 
@@ -50,8 +52,10 @@ final class SplitConstraint extends ChartConstraint {
         insideClass = new int[terms][];
         insideOffset = new int[terms];
         boundaryOffset = new int[terms];
+        runs = new LiveRuns[terms];
         int keys = 0;
         for (int t = 0; t < terms; t++) {
+            runs[t] = new LiveRuns(grammar.terminal(t), trie.maxDepth(), true);
             insideClass[t] = grammar.terminal(t).viableClasses(trie.maxDepth());
             insideOffset[t] = keys;
             keys += Arrays.stream(insideClass[t]).max().orElse(-1) + 1;
@@ -248,44 +252,24 @@ final class SplitConstraint extends ChartConstraint {
     }
 
     /**
-     * Walks the trie from DFA state {@code q} of terminal {@code t}, pruning at dead bytes: marks in
-     * {@code inside} (when not null) every token reached, and returns the children of the accepting
-     * nodes bucketed by their byte (laid out as {@link #BUCKETS} says), or an empty array when there
-     * are none.
+     * Walks the trie from DFA state {@code q} of terminal {@code t}, pruning at dead bytes and
+     * deciding at once the subtrees {@link #runs} vouches for (inside the lexeme, never at its end):
+     * marks in {@code inside} (when not null) every token reached, and returns the children of the
+     * accepting nodes bucketed by their byte (laid out as {@link #BUCKETS} says), or an empty array
+     * when there are none.
      */
     private int[] lexicalWalk(int t, int q, long[] inside) {
+        return lexicalWalk(t, q, inside, runs[t]);
+    }
+
+    /** {@link #lexicalWalk(int, int, long[])} with the given coverage: the plain twin steps every node. */
+    int[] lexicalWalk(int t, int q, long[] inside, VocabularyTrie.Coverage coverage) {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
-        int[] at = new int[tr.maxDepth() + 1];
-        at[0] = q;
-        int[] out = new int[64];
-        int count = 0;
-        int n = tr.nodeCount();
-        int i = 1;
-        while (i < n) {
-            int d = tr.depth(i);
-            int next = dfa.step(at[d - 1], tr.label(i));
-            if (next == ByteDfa.DEAD) {
-                i = tr.skip(i);
-                continue;
-            }
-            at[d] = next;
-            if (inside != null) {
-                for (int k = tr.tokensFrom(i), end = tr.tokensTo(i); k < end; k++) {
-                    int id = tr.tokenAt(k);
-                    inside[id >>> 6] |= 1L << id;
-                }
-            }
-            if (dfa.accepts(next) && tr.skip(i) > i + 1) {
-                for (int j = i + 1, end = tr.skip(i); j < end; j = tr.skip(j)) {
-                    if (count == out.length) {
-                        out = Arrays.copyOf(out, count * 2);
-                    }
-                    out[count++] = j;
-                }
-            }
-            i++;
-        }
+        Boundaries found = new Boundaries(dfa, tr);
+        tr.collect(dfa::step, coverage, q, inside != null ? inside : new long[words], tr.maxDepth(), found);
+        int[] out = found.children;
+        int count = found.count;
         if (count == 0) {
             return new int[0];
         }
@@ -303,6 +287,31 @@ final class SplitConstraint extends ChartConstraint {
             nodes[fill[tr.label(out[k]) & 0xFF]++] = out[k];
         }
         return nodes;
+    }
+
+    /** Collects, during a walk, the children of the nodes where the lexeme may end. */
+    private static final class Boundaries implements VocabularyTrie.Visitor {
+        private final ByteDfa dfa;
+        private final VocabularyTrie trie;
+        int[] children = new int[64];
+        int count;
+
+        Boundaries(ByteDfa dfa, VocabularyTrie trie) {
+            this.dfa = dfa;
+            this.trie = trie;
+        }
+
+        @Override
+        public void reached(int node, int state) {
+            if (dfa.accepts(state) && trie.skip(node) > node + 1) {
+                for (int j = node + 1, end = trie.skip(node); j < end; j = trie.skip(j)) {
+                    if (count == children.length) {
+                        children = Arrays.copyOf(children, count * 2);
+                    }
+                    children[count++] = j;
+                }
+            }
+        }
     }
 
     @Override

@@ -274,6 +274,16 @@ public final class VocabularyTrie {
         boolean diesAfter(int state, long low, long high, boolean multibyte, int length);
     }
 
+    /** Told of the live nodes a walk steps to (see {@link #collect(Stepper, Coverage, int, long[], int, Visitor)}). */
+    @FunctionalInterface
+    public interface Visitor {
+        /** The walk reached trie node {@code node} in automaton state {@code state} (live). */
+        void reached(int node, int state);
+    }
+
+    /** Told nothing. */
+    private static final Visitor NOBODY = (node, state) -> { };
+
     /**
      * Sets in {@code mask} the bit of every token whose bytes lead {@code stepper} from
      * {@code start} to a live state, walking the trie in preorder and skipping a subtree at its first
@@ -312,6 +322,15 @@ public final class VocabularyTrie {
      * same.
      */
     public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth) {
+        collect(stepper, coverage, start, mask, maxDepth, NOBODY);
+    }
+
+    /**
+     * As {@link #collect(Stepper, Coverage, int, long[], int)}, telling {@code visitor} of every live
+     * node stepped to, before its subtree is decided or entered; the nodes inside subtrees decided at
+     * once are not told.
+     */
+    public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth, Visitor visitor) {
         int[] at = new int[this.maxDepth + 1];
         at[0] = start;
         final int[] packed = this.packed;
@@ -333,6 +352,7 @@ public final class VocabularyTrie {
                 i = skip[i];
                 continue;
             }
+            visitor.reached(i, next);
             int ch = chars[i];
             if (ch > 0 && d < maxDepth) {
                 boolean multi = multibyte[i];

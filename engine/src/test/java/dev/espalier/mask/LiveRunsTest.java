@@ -14,8 +14,8 @@ import org.junit.jupiter.api.Test;
 
 /**
  * {@link LiveRuns} against enumeration of every run it vouches for, alive or dead (small character
- * sets, short lengths, ASCII and multibyte characters), and the runs it must find in string bodies
- * and bounded counts.
+ * sets, short lengths, ASCII and multibyte characters; also runs that must never reach an accepting
+ * state), and the runs it must find in string bodies and bounded counts.
  */
 class LiveRunsTest {
 
@@ -43,30 +43,38 @@ class LiveRunsTest {
         return new String(Character.toChars(codePoint)).getBytes(StandardCharsets.UTF_8);
     }
 
-    /** The state after {@code bytes}, {@link ByteDfa#DEAD} once dead. */
-    private static int run(ByteDfa d, int state, byte[] bytes, int from, int to) {
+    /** The state after {@code bytes}, {@link ByteDfa#DEAD} once dead (or, with {@code avoid}, once accepting). */
+    private static int run(ByteDfa d, int state, byte[] bytes, int from, int to, boolean avoid) {
         for (int i = from; i < to && state != ByteDfa.DEAD; i++) {
             state = d.step(state, bytes[i] & 0xFF);
+            if (avoid && state != ByteDfa.DEAD && d.accepts(state)) {
+                return ByteDfa.DEAD;
+            }
         }
         return state;
     }
 
+    private static int run(ByteDfa d, int state, byte[] bytes, int from, int to) {
+        return run(d, state, bytes, from, to, false);
+    }
+
     /**
      * Whether every run of 1..length characters from {@code alphabet}, the last one possibly cut
-     * short, leads from {@code state} to a state that is not dead.
+     * short, leads from {@code state} to a state that is not dead (and, with {@code avoid}, passes
+     * through no accepting state).
      */
-    private static boolean allAlive(ByteDfa d, int state, List<byte[]> alphabet, int length) {
+    private static boolean allAlive(ByteDfa d, int state, List<byte[]> alphabet, int length, boolean avoid) {
         if (length == 0) {
             return true;
         }
         for (byte[] ch : alphabet) {
             for (int cut = 1; cut < ch.length; cut++) {
-                if (run(d, state, ch, 0, cut) == ByteDfa.DEAD) {
+                if (run(d, state, ch, 0, cut, avoid) == ByteDfa.DEAD) {
                     return false;
                 }
             }
-            int next = run(d, state, ch, 0, ch.length);
-            if (next == ByteDfa.DEAD || !allAlive(d, next, alphabet, length - 1)) {
+            int next = run(d, state, ch, 0, ch.length, avoid);
+            if (next == ByteDfa.DEAD || !allAlive(d, next, alphabet, length - 1, avoid)) {
                 return false;
             }
         }
@@ -96,11 +104,13 @@ class LiveRunsTest {
         int vouched = 0;
         int vouchedMultibyte = 0;
         int dying = 0;
+        int avoiding = 0;
         for (String pattern : List.of("[a-z ]{0,6}x", "\"([^\"\\\\]|\\\\.){2,9}\"", "(ab|c){0,4}x", "[0-9]{1,5}(\\.[0-9]{0,3})?",
                 "[a-z.]{1,5}@[a-z]{1,4}\\.(com|org)", "(x|yz)*", "\"[^\"\\\\]{0,5}\"", "[^!-~]{1,4}!", "[a-zé€]{0,4}!",
                 "(a|[^a-z]){0,3}")) {
             ByteDfa d = dfa(pattern);
             LiveRuns runs = new LiveRuns(d, 8);
+            LiveRuns inside = new LiveRuns(d, 8, true);
             for (int state = 0; state < d.stateCount(); state++) {
                 for (int trial = 0; trial < 40; trial++) {
                     int size = 1 + rnd.nextInt(3);
@@ -127,8 +137,18 @@ class LiveRunsTest {
                     if (live > 0) {
                         vouched++;
                         vouchedMultibyte += multibyte ? 1 : 0;
-                        assertTrue(allAlive(d, state, alphabet, Math.min(live, 5)),
+                        assertTrue(allAlive(d, state, alphabet, Math.min(live, 5), false),
                                 () -> pattern + ": state " + st + " vouched for a run that dies");
+                    }
+                    int within = inside.liveLength(state, low, high, multibyte);
+                    if (within > 0) {
+                        avoiding++;
+                        assertTrue(allAlive(d, state, alphabet, Math.min(within, 5), true),
+                                () -> pattern + ": state " + st + " vouched for a run that dies or accepts");
+                    }
+                    if (within < 5 && inside.diesAfter(state, low, high, multibyte, within)) {
+                        assertTrue(allDie(d, state, alphabet, within),
+                                () -> pattern + ": state " + st + " said runs of " + within + " characters and a byte die");
                     }
                     if (live < 5 && runs.diesAfter(state, low, high, multibyte, live)) {
                         dying++;
@@ -141,6 +161,7 @@ class LiveRunsTest {
         assertTrue(vouched > 100, "runs vouched for: " + vouched);
         assertTrue(vouchedMultibyte > 50, "runs with multibyte characters vouched for: " + vouchedMultibyte);
         assertTrue(dying > 50, "runs said to die: " + dying);
+        assertTrue(avoiding > 50, "runs vouched for that never accept: " + avoiding);
     }
 
     @Test

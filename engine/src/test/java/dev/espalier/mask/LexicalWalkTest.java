@@ -1,0 +1,80 @@
+package dev.espalier.mask;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.espalier.abnf.Abnf;
+import dev.espalier.earley.SplitGrammar;
+import dev.espalier.grammar.Grammar;
+import dev.espalier.schema.JsonSchemas;
+import dev.espalier.schema.SchemaOptions;
+import dev.espalier.testing.TestVocabularies;
+import dev.espalier.vocab.Vocabulary;
+import dev.espalier.vocab.VocabularyTrie;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+
+/**
+ * The split engine's lexical walks, which decide at once the trie subtrees that {@link LiveRuns}
+ * vouches for (inside a lexeme, never at its end), against plain walks that step every node: the
+ * same inside mask and the same boundary nodes, for every state of every lexical automaton of
+ * grammars with strings, bounded counts and numbers, on cl100k and o200k.
+ */
+class LexicalWalkTest {
+
+    /** Vouches for nothing: every node is stepped. */
+    private static final VocabularyTrie.Coverage PLAIN = new VocabularyTrie.Coverage() {
+        @Override
+        public int liveLength(int state, long low, long high, boolean multibyte) {
+            return 0;
+        }
+
+        @Override
+        public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
+            return false;
+        }
+    };
+
+    private static Grammar schema(String name) throws IOException {
+        return JsonSchemas.compile(Files.readString(Path.of("..", "grammars", "schemas", name + ".schema.json"),
+                StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
+    }
+
+    private static int compare(String where, Grammar g, Vocabulary v) {
+        SplitConstraint c = new SplitConstraint(SplitGrammar.compile(g, 10_000), v, MaskSettings.defaults());
+        int states = 0;
+        for (int t = 0; t < c.grammar.terminalCount(); t++) {
+            LiveRuns runs = new LiveRuns(c.grammar.terminal(t), v.trie().maxDepth(), true);
+            for (int q = 0; q < c.grammar.terminal(t).stateCount(); q++) {
+                long[] fast = new long[v.maskWords()];
+                long[] slow = new long[v.maskWords()];
+                int[] fastNodes = c.lexicalWalk(t, q, fast, runs);
+                int[] slowNodes = c.lexicalWalk(t, q, slow, PLAIN);
+                int term = t;
+                int state = q;
+                assertArrayEquals(slow, fast, () -> where + ": inside mask of terminal " + term + " state " + state);
+                assertArrayEquals(slowNodes, fastNodes, () -> where + ": boundary nodes of terminal " + term + " state " + state);
+                states++;
+            }
+        }
+        return states;
+    }
+
+    @Test
+    void walksThatTakeSubtreesEqualPlainWalks() throws Exception {
+        int states = 0;
+        for (String vocabulary : new String[] {"cl100k", "o200k"}) {
+            Vocabulary v = TestVocabularies.builtin(vocabulary);
+            states += compare("site-hierarchy on " + vocabulary, schema("site-hierarchy"), v);
+            for (String name : new String[] {"json", "tree-query", "inspection-report"}) {
+                Grammar g = Abnf.parseWithImports(Path.of("..", "grammars", name + ".abnf")).grammar();
+                states += compare(name + " on " + vocabulary, g, v);
+            }
+        }
+        assertTrue(states > 100, "lexical states compared: " + states);
+        System.out.println("lexical walks vs plain walks: " + states + " (terminal, state) pairs, 0 differences");
+    }
+}
