@@ -262,10 +262,20 @@ public final class ByteDfa {
                 throw new IllegalArgumentException("depths must ascend");
             }
         }
+        return viableClasses(depths, false);
+    }
+
+    /**
+     * {@link #viableClasses(int[])}, with every signature hashed alike when {@code collide} is set:
+     * each lookup then meets the others of its block and must tell them apart by comparing them in
+     * full (for tests of that path).
+     */
+    int[][] viableClasses(int[] depths, boolean collide) {
         int n = stateCount();
         int[][] out = new int[depths.length][];
         int depth = depths.length == 0 ? 0 : Math.max(0, depths[depths.length - 1]);
         Refiner r = new Refiner(this);
+        r.collide = collide;
         int next = 0;
         for (int round = 0; round < depth && r.touchedCount > 0; round++) {
             while (next < depths.length && depths[next] <= round) {
@@ -382,7 +392,13 @@ public final class ByteDfa {
             return t == DEAD ? -1 : block[t];
         }
 
+        /** Hash every signature alike (see {@link ByteDfa#viableClasses(int[], boolean)}). */
+        boolean collide;
+
         private int hash(int st) {
+            if (collide) {
+                return 0;
+            }
             int h = 1;
             int last = Integer.MIN_VALUE;
             for (int j = runStart[st]; j < runStart[st + 1]; j++) {

@@ -51,7 +51,8 @@ import java.util.concurrent.ConcurrentHashMap;
  * </ul>
  * Stricter than the letter of the ABNF: duration designators ({@code P}, {@code Y}, {@code T}, ...) are
  * upper case only, as ISO 8601 writes them (RFC 5234 would read the quoted strings of RFC 3339
- * Appendix A case-insensitively); e-mail address literals take IPv4 octets without leading zeros.
+ * Appendix A case-insensitively); e-mail address literals take IPv4 octets without leading zeros,
+ * and the IPv6 tag only as {@code IPv6:}, as RFC 5321 section 4.1.3 writes it.
  */
 public final class Formats {
 
