@@ -272,6 +272,19 @@ public final class VocabularyTrie {
          * {@link #liveLength} answered for the same state and set. Answering false is always allowed.
          */
         boolean diesAfter(int state, long low, long high, boolean multibyte, int length);
+
+        /** Vouches for nothing: a walk with it steps every node (the plain twin of any coverage). */
+        Coverage NONE = new Coverage() {
+            @Override
+            public int liveLength(int state, long low, long high, boolean multibyte) {
+                return 0;
+            }
+
+            @Override
+            public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
+                return false;
+            }
+        };
     }
 
     /** Told of the live nodes a walk steps to (see {@link #collect(Stepper, Coverage, int, long[], int, Visitor)}). */
@@ -298,21 +311,8 @@ public final class VocabularyTrie {
      * only: deeper subtrees are not entered.
      */
     public void collect(Stepper stepper, int start, long[] mask, int maxDepth) {
-        collect(stepper, NOTHING, start, mask, maxDepth);
+        collect(stepper, Coverage.NONE, start, mask, maxDepth);
     }
-
-    /** Vouches for nothing: every node is stepped. */
-    private static final Coverage NOTHING = new Coverage() {
-        @Override
-        public int liveLength(int state, long low, long high, boolean multibyte) {
-            return 0;
-        }
-
-        @Override
-        public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
-            return false;
-        }
-    };
 
     /**
      * As {@link #collect(Stepper, int, long[], int)}, but where {@code coverage} decides every

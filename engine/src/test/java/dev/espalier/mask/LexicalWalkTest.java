@@ -25,19 +25,6 @@ import org.junit.jupiter.api.Test;
  */
 class LexicalWalkTest {
 
-    /** Vouches for nothing: every node is stepped. */
-    private static final VocabularyTrie.Coverage PLAIN = new VocabularyTrie.Coverage() {
-        @Override
-        public int liveLength(int state, long low, long high, boolean multibyte) {
-            return 0;
-        }
-
-        @Override
-        public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
-            return false;
-        }
-    };
-
     private static Grammar schema(String name) throws IOException {
         return JsonSchemas.compile(Files.readString(Path.of("..", "grammars", "schemas", name + ".schema.json"),
                 StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
@@ -52,7 +39,7 @@ class LexicalWalkTest {
                 long[] fast = new long[v.maskWords()];
                 long[] slow = new long[v.maskWords()];
                 int[] fastNodes = c.lexicalWalk(t, q, fast, runs);
-                int[] slowNodes = c.lexicalWalk(t, q, slow, PLAIN);
+                int[] slowNodes = c.lexicalWalk(t, q, slow, VocabularyTrie.Coverage.NONE);
                 int term = t;
                 int state = q;
                 assertArrayEquals(slow, fast, () -> where + ": inside mask of terminal " + term + " state " + state);
