@@ -4,6 +4,7 @@ import dev.espalier.automaton.ByteDfa;
 import dev.espalier.automaton.Utf8;
 import dev.espalier.vocab.VocabularyTrie;
 
+import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 
@@ -52,31 +53,31 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     private static final int FRONTIER = 64;
 
     /**
-     * The runs of one state: {@code I(k)} is {@code low[j]/high[j]/multibyte[j]} for the first
-     * {@code j} with {@code k <= upTo[j]}, empty past the last; {@code deadLow[j]/deadHigh[j]} are
-     * the dead ASCII bytes of the state reached after {@code upTo[j]} characters and
-     * {@code leadsDead[j]} whether every lead byte is dead there.
+     * One length where the runs of a state change: {@code I(k)} for {@code k <= upTo} (after the
+     * entries before it) is the ASCII bytes {@code low/high}, with the multibyte characters when
+     * {@code multibyte}; {@code deadLow/deadHigh} are the dead ASCII bytes of the state reached
+     * after {@code upTo} characters and {@code leadsDead} whether every lead byte is dead there.
      */
-    private static final class Runs {
-        final int[] upTo;
-        final long[] low;
-        final long[] high;
-        final boolean[] multibyte;
-        final long[] deadLow;
-        final long[] deadHigh;
-        final boolean[] leadsDead;
+    private record Entry(int upTo, long low, long high, boolean multibyte, long deadLow, long deadHigh,
+            boolean leadsDead) {
 
-        Runs(int count, int[] upTo, long[] low, long[] high, boolean[] multibyte, long[] deadLow, long[] deadHigh,
-                boolean[] leadsDead) {
-            this.upTo = Arrays.copyOf(upTo, count);
-            this.low = Arrays.copyOf(low, count);
-            this.high = Arrays.copyOf(high, count);
-            this.multibyte = Arrays.copyOf(multibyte, count);
-            this.deadLow = Arrays.copyOf(deadLow, count);
-            this.deadHigh = Arrays.copyOf(deadHigh, count);
-            this.leadsDead = Arrays.copyOf(leadsDead, count);
+        /** Whether the set holds the ASCII bytes {@code low/high}, and the multibyte characters if asked. */
+        boolean holds(long low, long high, boolean multibyte) {
+            return (low & ~this.low) == 0 && (high & ~this.high) == 0 && (!multibyte || this.multibyte);
         }
     }
+
+    /** The runs of one state, entries by ascending length; {@code I(k)} is empty past the last. */
+    private static final class Runs {
+        final Entry[] entries;
+
+        Runs(Entry[] entries) {
+            this.entries = entries;
+        }
+    }
+
+    /** The UTF-8 encodings of U+0080..U+10FFFF as byte-range sequences. */
+    private static final List<Utf8.ByteRanges> MULTIBYTE = Utf8.ranges(0x80, 0x10FFFF);
 
     /**
      * @param longest the longest run ever asked about (the vocabulary's longest token)
@@ -105,7 +106,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         this.deadLows = new long[n];
         this.deadHighs = new long[n];
         this.leadsDead = new boolean[n];
-        List<Utf8.ByteRanges> ranges = Utf8.ranges(0x80, 0x10FFFF);
+        List<Utf8.ByteRanges> ranges = MULTIBYTE;
         this.multibyteClasses = new int[ranges.size()][][];
         for (int r = 0; r < ranges.size(); r++) {
             Utf8.ByteRanges range = ranges.get(r);
@@ -132,27 +133,25 @@ final class LiveRuns implements VocabularyTrie.Coverage {
 
     @Override
     public int liveLength(int state, long low, long high, boolean multibyte) {
-        Runs r = of(state);
-        int[] upTo = r.upTo;
         int live = 0;
-        for (int j = 0; j < upTo.length; j++) {
-            if ((low & ~r.low[j]) != 0 || (high & ~r.high[j]) != 0 || multibyte && !r.multibyte[j]) {
+        for (Entry e : of(state).entries) {
+            if (!e.holds(low, high, multibyte)) {
                 break;
             }
-            live = upTo[j];
+            live = e.upTo;
         }
         return live;
     }
 
     @Override
     public boolean diesAfter(int state, long low, long high, boolean multibyte, int length) {
-        Runs r = of(state);
-        int[] upTo = r.upTo;
-        for (int j = 0; j < upTo.length && upTo[j] <= length; j++) {
-            if (upTo[j] == length) {
-                return (low & ~r.low[j]) == 0 && (high & ~r.high[j]) == 0 && (!multibyte || r.multibyte[j])
-                        && (low & ~r.deadLow[j]) == 0 && (high & ~r.deadHigh[j]) == 0
-                        && (!multibyte || r.leadsDead[j]);
+        for (Entry e : of(state).entries) {
+            if (e.upTo == length) {
+                return e.holds(low, high, multibyte) && (low & ~e.deadLow) == 0 && (high & ~e.deadHigh) == 0
+                        && (!multibyte || e.leadsDead);
+            }
+            if (e.upTo > length) {
+                break;
             }
         }
         return false;
@@ -162,15 +161,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         if (runs[state] != null) {
             return runs[state];
         }
-        int cap = 4;
-        int[] upTo = new int[cap];
-        long[] lows = new long[cap];
-        long[] highs = new long[cap];
-        boolean[] multis = new boolean[cap];
-        long[] deadLowAt = new long[cap];
-        long[] deadHighAt = new long[cap];
-        boolean[] leadsDeadAt = new boolean[cap];
-        int count = 0;
+        List<Entry> entries = new ArrayList<>();
         long low = -1L;
         long high = -1L;
         boolean multi = true;
@@ -181,38 +172,14 @@ final class LiveRuns implements VocabularyTrie.Coverage {
             long nextHigh = high & majorHighs[q];
             boolean nextMulti = multi && majorMultibyte[q];
             boolean nextEmpty = (nextLow | nextHigh) == 0 && !nextMulti;
-            boolean forever = major == q || k == longest;
-            // I(k - 1) ends here, or (a loop on the same characters) I(k) holds for every length
-            boolean ends = k > 1 && (nextLow != low || nextHigh != high || nextMulti != multi);
-            if (ends || forever && !nextEmpty) {
-                if (count + 2 > cap) {
-                    cap *= 2;
-                    upTo = Arrays.copyOf(upTo, cap);
-                    lows = Arrays.copyOf(lows, cap);
-                    highs = Arrays.copyOf(highs, cap);
-                    multis = Arrays.copyOf(multis, cap);
-                    deadLowAt = Arrays.copyOf(deadLowAt, cap);
-                    deadHighAt = Arrays.copyOf(deadHighAt, cap);
-                    leadsDeadAt = Arrays.copyOf(leadsDeadAt, cap);
-                }
-                if (ends) {
-                    upTo[count] = k - 1;
-                    lows[count] = low;
-                    highs[count] = high;
-                    multis[count] = multi;
-                    deadLowAt[count] = deadLows[q];
-                    deadHighAt[count] = deadHighs[q];
-                    leadsDeadAt[count] = leadsDead[q];
-                    count++;
-                }
-                if (forever && !nextEmpty) {
-                    upTo[count] = Integer.MAX_VALUE;
-                    lows[count] = nextLow;
-                    highs[count] = nextHigh;
-                    multis[count] = nextMulti;
-                    count++;
-                    break;
-                }
+            if (k > 1 && (nextLow != low || nextHigh != high || nextMulti != multi)) {
+                // I(k - 1) ends here
+                entries.add(new Entry(k - 1, low, high, multi, deadLows[q], deadHighs[q], leadsDead[q]));
+            }
+            if ((major == q || k == longest) && !nextEmpty) {
+                // a loop on the same characters: I(k) holds for every length
+                entries.add(new Entry(Integer.MAX_VALUE, nextLow, nextHigh, nextMulti, 0, 0, false));
+                break;
             }
             low = nextLow;
             high = nextHigh;
@@ -222,7 +189,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
             }
             q = major;
         }
-        Runs r = new Runs(count, upTo, lows, highs, multis, deadLowAt, deadHighAt, leadsDeadAt);
+        Runs r = new Runs(entries.toArray(new Entry[0]));
         runs[state] = r;
         return r;
     }
@@ -295,7 +262,10 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         return major;
     }
 
-    /** Whether every UTF-8 encoding of a character from U+0080 up leads from {@code q} to {@code to}. */
+    /**
+     * Whether every UTF-8 encoding of a character from U+0080 up leads from {@code q} to {@code to}
+     * (with {@link #avoidAccepting}, through no accepting state; {@code to} is not accepting then).
+     */
     private boolean multibyteLeadTo(int q, int to) {
         int[] frontier = new int[FRONTIER];
         int[] next = new int[FRONTIER];
@@ -307,7 +277,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
                 for (int f = 0; f < size; f++) {
                     for (int b : bytes) {
                         int t = dfa.step(frontier[f], b);
-                        if (t == ByteDfa.DEAD || avoidAccepting && t != to && dfa.accepts(t)) {
+                        if (t == ByteDfa.DEAD || avoidAccepting && dfa.accepts(t)) {
                             return false;
                         }
                         int j = 0;

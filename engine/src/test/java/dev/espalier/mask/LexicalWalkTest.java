@@ -6,14 +6,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.espalier.abnf.Abnf;
 import dev.espalier.earley.SplitGrammar;
 import dev.espalier.grammar.Grammar;
-import dev.espalier.schema.JsonSchemas;
-import dev.espalier.schema.SchemaOptions;
 import dev.espalier.testing.TestVocabularies;
 import dev.espalier.vocab.Vocabulary;
 import dev.espalier.vocab.VocabularyTrie;
-import java.io.IOException;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 
@@ -25,12 +20,11 @@ import org.junit.jupiter.api.Test;
  */
 class LexicalWalkTest {
 
-    private static Grammar schema(String name) throws IOException {
-        return JsonSchemas.compile(Files.readString(Path.of("..", "grammars", "schemas", name + ".schema.json"),
-                StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
-    }
+    /** Nodes stepped to by the walks with {@link LiveRuns} and by the plain walks, over every comparison. */
+    private long steppedWithRuns;
+    private long steppedPlain;
 
-    private static int compare(String where, Grammar g, Vocabulary v) {
+    private int compare(String where, Grammar g, Vocabulary v) {
         SplitConstraint c = new SplitConstraint(SplitGrammar.compile(g, 10_000), v, MaskSettings.defaults());
         int states = 0;
         for (int t = 0; t < c.grammar.terminalCount(); t++) {
@@ -44,6 +38,8 @@ class LexicalWalkTest {
                 int state = q;
                 assertArrayEquals(slow, fast, () -> where + ": inside mask of terminal " + term + " state " + state);
                 assertArrayEquals(slowNodes, fastNodes, () -> where + ": boundary nodes of terminal " + term + " state " + state);
+                steppedWithRuns += TestGrammars.stepped(v, c.grammar.terminal(t), runs, q);
+                steppedPlain += TestGrammars.stepped(v, c.grammar.terminal(t), VocabularyTrie.Coverage.NONE, q);
                 states++;
             }
         }
@@ -55,13 +51,16 @@ class LexicalWalkTest {
         int states = 0;
         for (String vocabulary : new String[] {"cl100k", "o200k"}) {
             Vocabulary v = TestVocabularies.builtin(vocabulary);
-            states += compare("site-hierarchy on " + vocabulary, schema("site-hierarchy"), v);
+            states += compare("site-hierarchy on " + vocabulary, TestGrammars.schema("site-hierarchy"), v);
             for (String name : new String[] {"json", "tree-query", "inspection-report"}) {
                 Grammar g = Abnf.parseWithImports(Path.of("..", "grammars", name + ".abnf")).grammar();
                 states += compare(name + " on " + vocabulary, g, v);
             }
         }
         assertTrue(states > 100, "lexical states compared: " + states);
-        System.out.println("lexical walks vs plain walks: " + states + " (terminal, state) pairs, 0 differences");
+        // the comparison is not idle: the walks with runs decide subtrees the plain walks step through
+        assertTrue(2 * steppedWithRuns < steppedPlain, "nodes stepped: " + steppedWithRuns + " with runs, " + steppedPlain + " plain");
+        System.out.println("lexical walks vs plain walks: " + states + " (terminal, state) pairs, 0 differences; nodes stepped "
+                + steppedWithRuns + " vs " + steppedPlain);
     }
 }

@@ -2,22 +2,32 @@ package dev.espalier.mask;
 
 import dev.espalier.abnf.Abnf;
 import dev.espalier.abnf.AbnfResult;
+import dev.espalier.automaton.ByteDfa;
 import dev.espalier.grammar.CodePointSet;
 import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
+import dev.espalier.schema.JsonSchemas;
+import dev.espalier.schema.SchemaOptions;
+import dev.espalier.vocab.Vocabulary;
+import dev.espalier.vocab.VocabularyTrie;
 
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
 
-/** The context-free test grammars of {@code src/test/resources/cfmask/}, read with the ABNF front end. */
+/**
+ * The context-free test grammars of {@code src/test/resources/cfmask/}, read with the ABNF front end;
+ * the corpus schemas' grammars and automata; a count of the nodes a trie walk steps to.
+ */
 final class TestGrammars {
 
     /** Every test grammar by file name (without {@code .abnf}). */
@@ -38,6 +48,28 @@ final class TestGrammars {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
+    }
+
+    /** The grammar of the corpus schema {@code grammars/schemas/<name>.schema.json}, default options. */
+    static Grammar schema(String name) {
+        try {
+            return JsonSchemas.compile(Files.readString(Path.of("..", "grammars", "schemas", name + ".schema.json"),
+                    StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** The byte automaton of a grammar without recursion. */
+    static ByteDfa automaton(Grammar g) {
+        return ByteDfa.fromExpr(Expr.ref(g.start()), n -> g.rule(n).map(Rule::body).orElse(null), 10_000);
+    }
+
+    /** The nodes a walk of {@code v}'s trie from {@code state} steps to with {@code coverage}. */
+    static long stepped(Vocabulary v, ByteDfa dfa, VocabularyTrie.Coverage coverage, int state) {
+        long[] count = new long[1];
+        v.trie().collect(dfa::step, coverage, state, new long[v.maskWords()], v.trie().maxDepth(), (node, at) -> count[0]++);
+        return count[0];
     }
 
     /**
