@@ -1,6 +1,7 @@
 package dev.espalier.mask;
 
 import dev.espalier.automaton.ByteDfa;
+import dev.espalier.vocab.RunTokens;
 import dev.espalier.vocab.Vocabulary;
 import dev.espalier.vocab.VocabularyTrie;
 
@@ -138,19 +139,29 @@ final class DfaConstraint implements Constraint {
     long[] compute(int state) {
         if (shortClass == null) {
             long[] m = new long[words];
-            trie.collect(dfa::step, runs, state, m, trie.maxDepth());
+            walk(trie, state, m, trie.maxDepth());
             return m;
         }
         int key = shortClass[state];
         long[] shortMask = shortCache.get(key);
         if (shortMask == null) {
             shortMask = new long[words];
-            trie.collect(dfa::step, runs, state, shortMask, SHORT);
+            walk(trie, state, shortMask, SHORT);
             shortMask = shortCache.put(key, shortMask);
         }
         long[] m = shortMask.clone();
-        longTrie.collect(dfa::step, runs, state, m, longTrie.maxDepth());
+        walk(longTrie, state, m, longTrie.maxDepth());
         return m;
+    }
+
+    /**
+     * One walk of {@code t} from {@code state}; when the state's first runs are over a large set (text
+     * inside a string), the tokens made of that set are added in whole words instead of visited.
+     */
+    private void walk(VocabularyTrie t, int state, long[] m, int maxDepth) {
+        LiveRuns.Whole w = runs.whole(state);
+        RunTokens whole = w == null ? null : t.runTokens(w.low(), w.high(), w.multibyte(), maxDepth);
+        t.collect(dfa::step, runs, state, m, maxDepth, whole, whole == null ? 0 : w.upTo());
     }
 
     /** The mask of {@code state} by one plain walk of the whole trie, every node stepped. */

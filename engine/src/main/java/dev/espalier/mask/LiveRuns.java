@@ -157,6 +157,31 @@ final class LiveRuns implements VocabularyTrie.Coverage {
         return false;
     }
 
+    /**
+     * A character set and a length {@code upTo} such that every run over the set of 1 to
+     * {@code upTo} characters leads from {@code state} to a live state and every longer one dies
+     * ({@link Integer#MAX_VALUE}: none dies), as a trie walk from {@code state} may take them whole;
+     * null when the state's first runs are over fewer than {@link #WHOLE_FEWEST} ASCII bytes and no
+     * multibyte character (too few tokens to be worth a set of their own).
+     */
+    Whole whole(int state) {
+        Entry[] entries = of(state).entries;
+        if (entries.length == 0) {
+            return null;
+        }
+        Entry e = entries[0];
+        Whole w = e.upTo == Integer.MAX_VALUE ? new Whole(e.low, e.high, e.multibyte, e.upTo)
+                : new Whole(e.low & e.deadLow, e.high & e.deadHigh, e.multibyte && e.leadsDead, e.upTo);
+        return w.multibyte || Long.bitCount(w.low) + Long.bitCount(w.high) >= WHOLE_FEWEST ? w : null;
+    }
+
+    /** See {@link #whole}. */
+    static final int WHOLE_FEWEST = 16;
+
+    /** The runs over ASCII bytes {@code low/high} (and multibyte characters) that live for {@code upTo} characters and then die. */
+    record Whole(long low, long high, boolean multibyte, int upTo) {
+    }
+
     private synchronized Runs runsOf(int state) {
         if (runs[state] != null) {
             return runs[state];

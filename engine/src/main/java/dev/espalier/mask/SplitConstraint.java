@@ -4,6 +4,7 @@ import dev.espalier.automaton.ByteDfa;
 import dev.espalier.earley.ByteChart;
 import dev.espalier.earley.SplitChart;
 import dev.espalier.earley.SplitGrammar;
+import dev.espalier.vocab.RunTokens;
 import dev.espalier.vocab.Vocabulary;
 import dev.espalier.vocab.VocabularyTrie;
 
@@ -259,15 +260,21 @@ final class SplitConstraint extends ChartConstraint {
      * when there are none.
      */
     private int[] lexicalWalk(int t, int q, long[] inside) {
-        return lexicalWalk(t, q, inside, runs[t]);
+        return lexicalWalk(t, q, inside, runs[t], runs[t].whole(q));
     }
 
-    /** {@link #lexicalWalk(int, int, long[])} with the given coverage: the plain twin steps every node. */
-    int[] lexicalWalk(int t, int q, long[] inside, VocabularyTrie.Coverage coverage) {
+    /**
+     * {@link #lexicalWalk(int, int, long[])} with the given coverage, and the runs whose tokens are
+     * added in whole words ({@code whole}, from the same coverage, or null): the plain twin steps
+     * every node. The runs never pass an accepting state, so no boundary is left unvisited.
+     */
+    int[] lexicalWalk(int t, int q, long[] inside, VocabularyTrie.Coverage coverage, LiveRuns.Whole whole) {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
         Boundaries found = new Boundaries(dfa, tr);
-        tr.collect(dfa::step, coverage, q, inside != null ? inside : new long[words], tr.maxDepth(), found);
+        RunTokens tokens = whole == null ? null : tr.runTokens(whole.low(), whole.high(), whole.multibyte(), tr.maxDepth());
+        tr.collect(dfa::step, coverage, q, inside != null ? inside : new long[words], tr.maxDepth(), found, tokens,
+                tokens == null ? 0 : whole.upTo());
         int[] out = found.children;
         int count = found.count;
         if (count == 0) {

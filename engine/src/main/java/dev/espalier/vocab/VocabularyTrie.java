@@ -1,6 +1,7 @@
 package dev.espalier.vocab;
 
 import java.util.Arrays;
+import java.util.concurrent.ConcurrentHashMap;
 
 /**
  * The ordinary tokens of a vocabulary as a byte trie laid out in preorder: node {@code i}'s
@@ -39,6 +40,41 @@ public final class VocabularyTrie {
     /** The length in bytes, and the characters started, of the token at each position of the preorder token list. */
     private final int[] tokenLength;
     private final int[] tokenChars;
+    /** Per node, the state of {@link #utf8Step} after its path (-1: not well-formed). */
+    private final byte[] pending;
+    /** Mask words that hold every token id of the trie. */
+    private final int words;
+    /** {@link #runTokens} made so far, by set and depth; at most {@link #RUN_SETS}. */
+    private final ConcurrentHashMap<RunKey, RunTokens> runTokens = new ConcurrentHashMap<>();
+
+    /** Most character sets whose {@link RunTokens} a trie keeps. */
+    static final int RUN_SETS = 16;
+
+    /** A set and depth (a plain class: a record's equals and hash are bootstrapped on first use, slowly). */
+    private static final class RunKey {
+        final long low;
+        final long high;
+        final boolean multibyte;
+        final int maxDepth;
+
+        RunKey(long low, long high, boolean multibyte, int maxDepth) {
+            this.low = low;
+            this.high = high;
+            this.multibyte = multibyte;
+            this.maxDepth = maxDepth;
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof RunKey k && k.low == low && k.high == high && k.multibyte == multibyte
+                    && k.maxDepth == maxDepth;
+        }
+
+        @Override
+        public int hashCode() {
+            return Long.hashCode(low * 31 + high) * 31 + maxDepth * 2 + (multibyte ? 1 : 0);
+        }
+    }
 
     private VocabularyTrie(byte[] label, int[] depth, int[] skip, int[] tokenStart, int[] tokenIds, int maxDepth) {
         this.packed = new int[label.length];
@@ -62,6 +98,12 @@ public final class VocabularyTrie {
         this.tokenChars = new int[tokenIds.length];
         // preorder: the parent of node i is the last node seen at depth(i) - 1
         byte[] pending = new byte[n];
+        this.pending = pending;
+        int maxId = -1;
+        for (int id : tokenIds) {
+            maxId = Math.max(maxId, id);
+        }
+        this.words = (maxId >>> 6) + 1;
         int[] pathPending = new int[maxDepth + 1];
         int[] pathStarts = new int[maxDepth + 1];
         for (int i = 1; i < n; i++) {
@@ -331,8 +373,43 @@ public final class VocabularyTrie {
      * once are not told.
      */
     public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth, Visitor visitor) {
+        collect(stepper, coverage, start, mask, maxDepth, visitor, null, 0);
+    }
+
+    /**
+     * As {@link #collect(Stepper, Coverage, int, long[], int)}, where {@code whole} and
+     * {@code wholeUpTo} promise that every run over {@code whole}'s set of 1 to {@code wholeUpTo}
+     * characters leads from {@code start} to a live state and that every longer one dies
+     * ({@link Integer#MAX_VALUE}: none dies). The subtrees whose paths and everything below are such
+     * runs are then not visited at all: their tokens are added from {@code whole} in whole words. The
+     * mask is the same. {@code whole} must come from this trie, for {@code maxDepth}.
+     */
+    public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth, RunTokens whole,
+            int wholeUpTo) {
+        collect(stepper, coverage, start, mask, maxDepth, NOBODY, whole, wholeUpTo);
+    }
+
+    /**
+     * As {@link #collect(Stepper, Coverage, int, long[], int, RunTokens, int)}, telling
+     * {@code visitor} of every live node stepped to, as {@link #collect(Stepper, Coverage, int, long[], int, Visitor)}
+     * does; the nodes inside the subtrees left to {@code whole} are not told. {@code whole} may be
+     * null (nothing left out).
+     */
+    public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth, Visitor visitor,
+            RunTokens whole, int wholeUpTo) {
+        if (whole != null && (whole.maxDepth() != maxDepth || runTokens.get(new RunKey(whole.low(), whole.high(),
+                whole.multibyte(), maxDepth)) != whole)) {
+            throw new IllegalArgumentException("run tokens of another trie or depth");
+        }
         int[] at = new int[this.maxDepth + 1];
         at[0] = start;
+        // pure[d]: the path to depth d is a run over whole's set (byte by byte; well-formedness is
+        // checked where a subtree is left out)
+        boolean[] pure = new boolean[this.maxDepth + 1];
+        pure[0] = whole != null;
+        final long wholeLow = whole == null ? 0 : whole.low();
+        final long wholeHigh = whole == null ? 0 : whole.high();
+        final boolean wholeMulti = whole != null && whole.multibyte();
         final int[] packed = this.packed;
         final int[] skip = this.skip;
         final int[] tokenStart = this.tokenStart;
@@ -354,6 +431,15 @@ public final class VocabularyTrie {
             }
             visitor.reached(i, next);
             int ch = chars[i];
+            int b = p & 0xFF;
+            boolean pureHere = pure[d - 1]
+                    && (b < 64 ? (wholeLow >>> b & 1) != 0 : b < 128 ? (wholeHigh >>> (b - 64) & 1) != 0 : wholeMulti);
+            if (pureHere && ch >= 0 && (belowLow[i] & ~wholeLow) == 0 && (belowHigh[i] & ~wholeHigh) == 0
+                    && (wholeMulti || !multibyte[i])) {
+                i = skip[i]; // every token below is in whole, alive or dead as its length says
+                continue;
+            }
+            pure[d] = pureHere;
             if (ch > 0 && d < maxDepth) {
                 boolean multi = multibyte[i];
                 int live = coverage.liveLength(next, belowLow[i], belowHigh[i], multi);
@@ -388,6 +474,92 @@ public final class VocabularyTrie {
             }
             i++;
         }
+        if (whole != null) {
+            whole.addUpTo(wholeUpTo, mask);
+        }
+    }
+
+    /**
+     * The tokens of at most {@code maxDepth} bytes that are runs over a character set (as in
+     * {@link Coverage}), for {@link #collect(Stepper, Coverage, int, long[], int, RunTokens, int)};
+     * made on first use and kept, for at most {@value #RUN_SETS} sets and depths (null past that).
+     */
+    public RunTokens runTokens(long low, long high, boolean multibyte, int maxDepth) {
+        RunKey key = new RunKey(low, high, multibyte, maxDepth);
+        RunTokens known = runTokens.get(key);
+        if (known != null) {
+            return known;
+        }
+        synchronized (runTokens) {
+            known = runTokens.get(key);
+            if (known == null && runTokens.size() < RUN_SETS) {
+                known = buildRunTokens(low, high, multibyte, maxDepth);
+                runTokens.put(key, known);
+            }
+            return known;
+        }
+    }
+
+    private RunTokens buildRunTokens(long low, long high, boolean multibyte, int maxDepth) {
+        // the runs are ranges of the token list, found by a walk that takes a subtree whole where
+        // everything below is a run (few nodes: the loops are kept plain, as they mostly run before
+        // the JIT compiles them)
+        int[] ranges = new int[64];
+        int count = 0;
+        boolean[] pure = new boolean[this.maxDepth + 1];
+        pure[0] = true;
+        int n = packed.length;
+        for (int i = 1; i < n; i++) {
+            int d = depth[i];
+            int b = label[i] & 0xFF;
+            boolean p = pure[d - 1] && pending[i] >= 0
+                    && (b < 64 ? (low >>> b & 1) != 0 : b < 128 ? (high >>> (b - 64) & 1) != 0 : multibyte);
+            if (!p || d > maxDepth) {
+                // nothing below is a run over the set, or short enough
+                i = skip[i] - 1;
+                continue;
+            }
+            if (count + 2 > ranges.length) {
+                ranges = Arrays.copyOf(ranges, 2 * ranges.length);
+            }
+            ranges[count++] = tokenStart[i];
+            if (chars[i] >= 0 && (belowLow[i] & ~low) == 0 && (belowHigh[i] & ~high) == 0
+                    && (multibyte || !this.multibyte[i])) {
+                ranges[count++] = tokenStart[skip[i]];
+                i = skip[i] - 1;
+            } else {
+                ranges[count++] = tokenStart[i + 1];
+                pure[d] = true;
+            }
+        }
+        // one pass over the ranges: the runs of each length up to KEPT characters, and the longer ones
+        long[][] exact = new long[RunTokens.KEPT + 1][words];
+        int[] longer = new int[16];
+        int longerCount = 0;
+        for (int r = 0; r < count; r += 2) {
+            for (int pos = ranges[r], end = ranges[r + 1]; pos < end; pos++) {
+                if (tokenLength[pos] > maxDepth) {
+                    continue;
+                }
+                int c = tokenChars[pos];
+                int id = tokenIds[pos];
+                if (c <= RunTokens.KEPT) {
+                    exact[c][id >>> 6] |= 1L << id;
+                } else {
+                    if (longerCount == longer.length) {
+                        longer = Arrays.copyOf(longer, 2 * longer.length);
+                    }
+                    longer[longerCount++] = pos;
+                }
+            }
+        }
+        int[] ids = new int[longerCount];
+        int[] counts = new int[longerCount];
+        for (int k = 0; k < longerCount; k++) {
+            ids[k] = tokenIds[longer[k]];
+            counts[k] = tokenChars[longer[k]];
+        }
+        return RunTokens.of(low, high, multibyte, maxDepth, exact, ids, counts);
     }
 
     /** Number of nodes, the root included. */
@@ -439,7 +611,8 @@ public final class VocabularyTrie {
     public long memoryBytes() {
         return label.length + 4L * (depth.length + packed.length + skip.length + tokenStart.length + tokenIds.length
                 + height.length + chars.length + starts.length + tokenLength.length + tokenChars.length)
-                + 8L * (belowLow.length + belowHigh.length) + multibyte.length;
+                + 8L * (belowLow.length + belowHigh.length) + multibyte.length + pending.length
+                + runTokens.values().stream().mapToLong(RunTokens::memoryBytes).sum();
     }
 
     /** Ids of tokens whose bytes are exactly {@code bytes}, ascending. */

@@ -14,7 +14,8 @@ import org.junit.jupiter.api.Test;
 
 /**
  * The split engine's lexical walks, which decide at once the trie subtrees that {@link LiveRuns}
- * vouches for (inside a lexeme, never at its end), against plain walks that step every node: the
+ * vouches for (inside a lexeme, never at its end) and add the tokens of a state's first runs in whole
+ * words, against plain walks that step every node: the
  * same inside mask and the same boundary nodes, for every state of every lexical automaton of
  * grammars with strings, bounded counts and numbers, on cl100k and o200k.
  */
@@ -23,6 +24,8 @@ class LexicalWalkTest {
     /** Nodes stepped to by the walks with {@link LiveRuns} and by the plain walks, over every comparison. */
     private long steppedWithRuns;
     private long steppedPlain;
+    /** Pairs whose walks added the tokens of their first runs in whole words. */
+    private int wholeStates;
 
     private int compare(String where, Grammar g, Vocabulary v) {
         SplitConstraint c = new SplitConstraint(SplitGrammar.compile(g, 10_000), v, MaskSettings.defaults());
@@ -32,12 +35,19 @@ class LexicalWalkTest {
             for (int q = 0; q < c.grammar.terminal(t).stateCount(); q++) {
                 long[] fast = new long[v.maskWords()];
                 long[] slow = new long[v.maskWords()];
-                int[] fastNodes = c.lexicalWalk(t, q, fast, runs);
-                int[] slowNodes = c.lexicalWalk(t, q, slow, VocabularyTrie.Coverage.NONE);
+                long[] withWhole = new long[v.maskWords()];
+                int[] fastNodes = c.lexicalWalk(t, q, fast, runs, null);
+                int[] wholeNodes = c.lexicalWalk(t, q, withWhole, runs, runs.whole(q));
+                int[] slowNodes = c.lexicalWalk(t, q, slow, VocabularyTrie.Coverage.NONE, null);
                 int term = t;
                 int state = q;
                 assertArrayEquals(slow, fast, () -> where + ": inside mask of terminal " + term + " state " + state);
                 assertArrayEquals(slowNodes, fastNodes, () -> where + ": boundary nodes of terminal " + term + " state " + state);
+                assertArrayEquals(slow, withWhole, () -> where + ": inside mask (text tokens whole) of terminal " + term + " state " + state);
+                assertArrayEquals(slowNodes, wholeNodes, () -> where + ": boundary nodes (text tokens whole) of terminal " + term + " state " + state);
+                if (runs.whole(q) != null) {
+                    wholeStates++;
+                }
                 steppedWithRuns += TestGrammars.stepped(v, c.grammar.terminal(t), runs, q);
                 steppedPlain += TestGrammars.stepped(v, c.grammar.terminal(t), VocabularyTrie.Coverage.NONE, q);
                 states++;
@@ -60,7 +70,8 @@ class LexicalWalkTest {
         assertTrue(states > 100, "lexical states compared: " + states);
         // the comparison is not idle: the walks with runs decide subtrees the plain walks step through
         assertTrue(2 * steppedWithRuns < steppedPlain, "nodes stepped: " + steppedWithRuns + " with runs, " + steppedPlain + " plain");
-        System.out.println("lexical walks vs plain walks: " + states + " (terminal, state) pairs, 0 differences; nodes stepped "
-                + steppedWithRuns + " vs " + steppedPlain);
+        assertTrue(wholeStates > 20, "pairs adding text tokens whole: " + wholeStates);
+        System.out.println("lexical walks vs plain walks: " + states + " (terminal, state) pairs (" + wholeStates
+                + " adding text tokens whole), 0 differences; nodes stepped " + steppedWithRuns + " vs " + steppedPlain);
     }
 }

@@ -15,7 +15,8 @@ import org.junit.jupiter.api.Test;
 /**
  * Masks as computed for the cache (in two parts: short tokens from a mask cached per short class,
  * long tokens by a walk of their own trie; whole subtrees taken where {@link LiveRuns} vouches for
- * them) against one plain walk of the whole vocabulary trie that steps every node, for every state
+ * them, and the tokens of a state's first runs added in whole words) against one plain walk of the
+ * whole vocabulary trie that steps every node, for every state
  * of automata with length bounds: the corpus schemas with a bounded free text or a bounded e-mail
  * address, and patterns, on cl100k; and on o200k, whose many multibyte tokens are taken by
  * character counts, for a bounded free text.
@@ -24,10 +25,17 @@ class TwoPartMaskTest {
 
     private static final Vocabulary CL100K = TestVocabularies.builtin("cl100k");
 
-    private static int compare(String where, DfaConstraint c) {
+    /** States whose masks took the tokens of their first runs in whole words, over every comparison. */
+    private int wholeStates;
+
+    private int compare(String where, DfaConstraint c) {
+        LiveRuns runs = new LiveRuns(c.dfa, c.trie.maxDepth());
         for (int s = 0; s < c.dfa.stateCount(); s++) {
             int state = s;
             assertArrayEquals(c.computeByWalk(state), c.compute(state), () -> where + ": state " + state);
+            if (runs.whole(state) != null) {
+                wholeStates++;
+            }
         }
         return c.dfa.stateCount();
     }
@@ -54,8 +62,10 @@ class TwoPartMaskTest {
             states += compare(names.get(i), constraints.get(i));
         }
         assertTrue(twoPart >= 4, "constraints computing masks in two parts: " + twoPart);
+        // the comparison is not idle: in most states of the bounded texts, text tokens are added whole
+        assertTrue(wholeStates > states / 4, "states with text tokens added whole: " + wholeStates + " of " + states);
         System.out.println("cached masks vs one plain walk: " + constraints.size() + " automata (" + twoPart
-                + " in two parts), " + states + " states, 0 differences");
+                + " in two parts), " + states + " states (" + wholeStates + " adding text tokens whole), 0 differences");
     }
 
     @Test
@@ -77,7 +87,9 @@ class TwoPartMaskTest {
         long withRuns = TestGrammars.stepped(o200k, text, runs, inside);
         long plain = TestGrammars.stepped(o200k, text, VocabularyTrie.Coverage.NONE, inside);
         assertTrue(10 * withRuns < plain, "nodes stepped in the free text: " + withRuns + " with runs, " + plain + " plain");
+        assertTrue(wholeStates > states / 4, "states with text tokens added whole: " + wholeStates + " of " + states);
         System.out.println("cached masks vs one plain walk on o200k: " + automata.size() + " automata, " + states
-                + " states, 0 differences; in the free text " + withRuns + " nodes stepped instead of " + plain);
+                + " states (" + wholeStates + " adding text tokens whole), 0 differences; in the free text "
+                + withRuns + " nodes stepped instead of " + plain);
     }
 }
