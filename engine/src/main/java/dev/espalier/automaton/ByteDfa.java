@@ -47,19 +47,24 @@ public final class ByteDfa {
         int n = accepting.length;
         this.forcedByte = new int[n];
         this.hasNext = new boolean[n];
+        // a byte is forced when one class alone is live and that class is one byte
+        int[] classSize = new int[classCount];
+        int[] classByte = new int[classCount];
+        for (int b = 0; b < 256; b++) {
+            classSize[classOf[b] & 0xFF]++;
+            classByte[classOf[b] & 0xFF] = b;
+        }
         for (int s = 0; s < n; s++) {
-            for (int c = 0; c < classCount && !hasNext[s]; c++) {
-                hasNext[s] = table[s * classCount + c] != DEAD;
-            }
-            int only = -1;
-            int count = 0;
-            for (int b = 0; b < 256 && count < 2; b++) {
-                if (table[s * classCount + (classOf[b] & 0xFF)] != DEAD) {
-                    only = b;
-                    count++;
+            int live = 0;
+            int liveClass = -1;
+            for (int c = 0; c < classCount && live < 2; c++) {
+                if (table[s * classCount + c] != DEAD) {
+                    live++;
+                    liveClass = c;
                 }
             }
-            forcedByte[s] = count == 1 ? only : -1;
+            hasNext[s] = live > 0;
+            forcedByte[s] = live == 1 && classSize[liveClass] == 1 ? classByte[liveClass] : -1;
         }
     }
 
@@ -562,7 +567,8 @@ public final class ByteDfa {
     /** A byte NFA: transitions (lo, hi, target) per node, and optional epsilon moves. */
     static final class ByteNfa {
         final List<int[]> edges = new ArrayList<>(); // per node: flattened lo,hi,to triples
-        final List<Integer> edgeCounts = new ArrayList<>();
+        /** Per node, the number of triples in its {@link #edges} array in use. */
+        int[] edgeCounts = new int[16];
         final List<int[]> epsilon = new ArrayList<>(); // per node: targets of epsilon moves, or null
         boolean hasEpsilon;
         boolean[] accept = new boolean[16];
@@ -570,11 +576,11 @@ public final class ByteDfa {
 
         int newNode() {
             edges.add(new int[6]);
-            edgeCounts.add(0);
             epsilon.add(null);
             int id = edges.size() - 1;
             if (id >= accept.length) {
                 accept = Arrays.copyOf(accept, accept.length * 2);
+                edgeCounts = Arrays.copyOf(edgeCounts, accept.length);
             }
             return id;
         }
@@ -585,7 +591,7 @@ public final class ByteDfa {
 
         void addEdge(int from, int lo, int hi, int to) {
             int[] e = edges.get(from);
-            int c = edgeCounts.get(from);
+            int c = edgeCounts[from];
             if (3 * c + 3 > e.length) {
                 e = Arrays.copyOf(e, e.length * 2);
                 edges.set(from, e);
@@ -593,7 +599,7 @@ public final class ByteDfa {
             e[3 * c] = lo;
             e[3 * c + 1] = hi;
             e[3 * c + 2] = to;
-            edgeCounts.set(from, c + 1);
+            edgeCounts[from] = c + 1;
         }
 
         void addEpsilon(int from, int to) {
@@ -621,6 +627,15 @@ public final class ByteDfa {
             }
             if (nodeClosure == null) {
                 nodeClosure = new int[size()][];
+            }
+            if (set.length == 1) {
+                // a single node's closure is kept sorted: shared, not copied (callers do not write to it)
+                int[] c = nodeClosure[set[0]];
+                if (c == null) {
+                    c = closureOf(set[0]);
+                    nodeClosure[set[0]] = c;
+                }
+                return c;
             }
             int n = 0;
             int[] out = new int[Math.max(8, set.length * 2)];
@@ -662,7 +677,7 @@ public final class ByteDfa {
                 int node = work.pop();
                 // only nodes with byte edges or acceptance shape the future: subsets that differ in
                 // pass-through nodes alone (the middle of a sequence, a rule's entry) are one state
-                if (edgeCounts.get(node) > 0 || accept[node]) {
+                if (edgeCounts[node] > 0 || accept[node]) {
                     if (n == out.length) {
                         out = Arrays.copyOf(out, n * 2);
                     }
@@ -678,7 +693,9 @@ public final class ByteDfa {
                     }
                 }
             }
-            return Arrays.copyOf(out, n);
+            out = Arrays.copyOf(out, n);
+            Arrays.sort(out);
+            return out;
         }
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
@@ -764,7 +781,7 @@ public final class ByteDfa {
         cut[256] = true;
         for (int node = 0; node < nfa.size(); node++) {
             int[] e = nfa.edges.get(node);
-            for (int k = 0, c = nfa.edgeCounts.get(node); k < c; k++) {
+            for (int k = 0, c = nfa.edgeCounts[node]; k < c; k++) {
                 cut[e[3 * k]] = true;
                 cut[e[3 * k + 1] + 1] = true;
             }
@@ -779,6 +796,8 @@ public final class ByteDfa {
             classOf[b] = classes - 1;
         }
         classLo[classes] = 256;
+        int[][] edges = nfa.edges.toArray(new int[0][]);
+        int[] edgeCounts = nfa.edgeCounts;
         int[] mark = new int[nfa.size()];
         int stamp = 1;
         Map<IntSet, Integer> index = new HashMap<>();
@@ -796,8 +815,8 @@ public final class ByteDfa {
             int[] members = sets.get(d);
             Arrays.fill(bucketSize, 0);
             for (int node : members) {
-                int[] e = nfa.edges.get(node);
-                int c = nfa.edgeCounts.get(node);
+                int[] e = edges[node];
+                int c = edgeCounts[node];
                 for (int k = 0; k < c; k++) {
                     int to = e[3 * k + 2];
                     for (int cl = classOf[e[3 * k]], last = classOf[e[3 * k + 1]]; cl <= last; cl++) {
@@ -814,6 +833,13 @@ public final class ByteDfa {
             Arrays.fill(row, DEAD);
             for (int cl = 0; cl < classes; cl++) {
                 if (bucketSize[cl] == 0) {
+                    continue;
+                }
+                // the members' edges are read in one order, so a class covered by the same edges as
+                // the class before it has the same bucket, element for element: the same target
+                if (cl > 0 && bucketSize[cl] == bucketSize[cl - 1]
+                        && Arrays.equals(buckets[cl], 0, bucketSize[cl], buckets[cl - 1], 0, bucketSize[cl])) {
+                    row[cl] = row[cl - 1];
                     continue;
                 }
                 int[] target = Arrays.copyOf(buckets[cl], bucketSize[cl]);

@@ -7,6 +7,7 @@ import dev.espalier.grammar.Grammar;
 import java.util.ArrayDeque;
 import java.util.Deque;
 import java.util.HashMap;
+import java.util.List;
 import java.util.Map;
 import java.util.function.Function;
 
@@ -24,7 +25,14 @@ final class ExprNfa {
     private final Function<String, Expr> rules;
     private final int nodeLimit;
     private final int stateLimit;
-    private final Map<String, Integer> ruleEntries = new HashMap<>();
+    /** Per rule key, a number; per (rule number, continuation node), the rule's entry node. */
+    private final Map<String, Integer> ruleNumbers = new HashMap<>();
+    private final Map<Long, Integer> ruleEntries = new HashMap<>();
+    private int ruleCount;
+    /** The UTF-8 byte ranges of code point ranges met so far (the same classes recur in many rules). */
+    private final Map<Long, List<Utf8.ByteRanges>> encodings = new HashMap<>();
+    /** Nodes inside a character's encoding, by (next node, byte range): see {@link #addCodePoints}. */
+    private final Map<Long, Integer> innerNodes = new HashMap<>();
     private final Deque<Task> work = new ArrayDeque<>();
 
     /** Wire {@code expr} from node {@code from} to node {@code to}. */
@@ -115,7 +123,17 @@ final class ExprNfa {
                 nfa.addEpsilon(cur, to);
             }
         } else if (e instanceof Expr.Ref r) {
-            String key = Grammar.key(r.name()) + "\u0000" + to;
+            Integer number = ruleNumbers.get(r.name());
+            if (number == null) {
+                String ruleKey = Grammar.key(r.name());
+                number = ruleNumbers.get(ruleKey);
+                if (number == null) {
+                    number = ruleCount++;
+                    ruleNumbers.put(ruleKey, number);
+                }
+                ruleNumbers.put(r.name(), number);
+            }
+            long key = (long) number << 32 | to;
             Integer entry = ruleEntries.get(key);
             if (entry == null) {
                 Expr body = rules == null ? null : rules.apply(r.name());
@@ -134,13 +152,26 @@ final class ExprNfa {
 
     /** Code points lo..hi, surrogates excepted (they have no UTF-8 encoding). */
     private void addCodePoints(int from, int lo, int hi, int to) {
-        for (Utf8.ByteRanges r : Utf8.ranges(lo, hi)) {
-            int cur = from;
-            for (int i = 0; i < r.length(); i++) {
-                int next = i == r.length() - 1 ? to : node();
-                nfa.addEdge(cur, r.lo()[i], r.hi()[i], next);
-                cur = next;
+        List<Utf8.ByteRanges> ranges = encodings.get((long) lo << 32 | hi);
+        if (ranges == null) {
+            ranges = Utf8.ranges(lo, hi);
+            encodings.put((long) lo << 32 | hi, ranges);
+        }
+        for (Utf8.ByteRanges r : ranges) {
+            // the nodes inside a character are shared from the end: one node per (byte range, next
+            // node), whatever leads to it, so that subset construction meets one state, not one per path
+            int next = to;
+            for (int i = r.length() - 1; i > 0; i--) {
+                long key = (long) next << 16 | r.lo()[i] << 8 | r.hi()[i];
+                Integer inner = innerNodes.get(key);
+                if (inner == null) {
+                    inner = node();
+                    nfa.addEdge(inner, r.lo()[i], r.hi()[i], next);
+                    innerNodes.put(key, inner);
+                }
+                next = inner;
             }
+            nfa.addEdge(from, r.lo()[0], r.hi()[0], next);
         }
     }
 

@@ -1,6 +1,8 @@
 package dev.espalier.automaton;
 
+import dev.espalier.regex.RegexSyntax;
 import dk.brics.automaton.Automaton;
+import java.util.List;
 import org.junit.jupiter.api.Test;
 
 import java.nio.charset.StandardCharsets;
@@ -116,6 +118,32 @@ class ByteDfaTest {
             s = dfa.step(s, b);
         }
         assertEquals("{\"variety\":", sb.toString());
+    }
+
+    @Test
+    void forcedBytesAndContinuationsAgreeWithEveryByte() {
+        int states = 0;
+        int forced = 0;
+        for (String pattern : List.of("\\{\"variety\":\"[A-Z][a-z]{0,8}\"\\}", "[é€]x|y[^a-z]{2}", "(ab|c){0,5}d?",
+                "T-[0-9]{4}", "[\\u0080-\\u00FF]z", "x[\uD83C\uDF4E\uD83C\uDF50]")) {
+            ByteDfa dfa = ByteDfa.fromExpr(RegexSyntax.parse(pattern), null, 10_000);
+            for (int s = 0; s < dfa.stateCount(); s++) {
+                int only = -1;
+                int live = 0;
+                for (int b = 0; b < 256; b++) {
+                    if (dfa.step(s, b) != ByteDfa.DEAD) {
+                        live++;
+                        only = b;
+                    }
+                }
+                String where = pattern + ", state " + s;
+                assertEquals(live == 1 ? only : -1, dfa.forcedByte(s), where);
+                assertEquals(live > 0, dfa.canContinue(s), where);
+                forced += live == 1 ? 1 : 0;
+                states++;
+            }
+        }
+        assertTrue(forced > 10 && forced < states, "states with one byte forced: " + forced + " of " + states);
     }
 
     @Test
