@@ -1884,8 +1884,16 @@ final class SchemaCompiler {
             return encodeSet(c.set());
         }
         if (e instanceof Expr.Text t) {
+            String text = t.text();
+            boolean same = true;
+            for (int i = 0; i < text.length() && same; i++) {
+                same = !JsonText.escaped(text.charAt(i)) && !Character.isSurrogate(text.charAt(i));
+            }
+            if (same) {
+                return t; // nothing in it is escaped (the common case in a large string language)
+            }
             StringBuilder sb = new StringBuilder();
-            t.text().codePoints().forEach(cp -> sb.append(JsonText.encode(cp)));
+            text.codePoints().forEach(cp -> sb.append(JsonText.encode(cp)));
             return new Expr.Text(sb.toString(), t.ignoreCase(), t.span());
         }
         return e;
