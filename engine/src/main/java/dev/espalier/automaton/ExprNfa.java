@@ -88,13 +88,22 @@ final class ExprNfa {
         } else if (e instanceof Expr.Text x) {
             text(x.text(), x.ignoreCase(), from, to);
         } else if (e instanceof Expr.Seq s) {
+            List<Expr> items = s.items();
+            int last = items.size() - 1;
+            // a sequence that ends in a rule (a right-linear rule's step) leads straight into the
+            // rule's entry for this continuation: no node and epsilon move in between
+            int end = to;
+            if (last > 0 && items.get(last) instanceof Expr.Ref r) {
+                end = ruleEntry(r, to);
+                last--;
+            }
             int cur = from;
-            for (int i = 0; i < s.items().size(); i++) {
-                int next = i == s.items().size() - 1 ? to : node();
-                work.push(new Task(s.items().get(i), cur, next));
+            for (int i = 0; i <= last; i++) {
+                int next = i == last ? end : node();
+                work.push(new Task(items.get(i), cur, next));
                 cur = next;
             }
-            if (s.items().isEmpty()) {
+            if (items.isEmpty()) {
                 nfa.addEpsilon(from, to);
             }
         } else if (e instanceof Expr.Choice c) {
@@ -123,31 +132,36 @@ final class ExprNfa {
                 nfa.addEpsilon(cur, to);
             }
         } else if (e instanceof Expr.Ref r) {
-            Integer number = ruleNumbers.get(r.name());
-            if (number == null) {
-                String ruleKey = Grammar.key(r.name());
-                number = ruleNumbers.get(ruleKey);
-                if (number == null) {
-                    number = ruleCount++;
-                    ruleNumbers.put(ruleKey, number);
-                }
-                ruleNumbers.put(r.name(), number);
-            }
-            long key = (long) number << 32 | to;
-            Integer entry = ruleEntries.get(key);
-            if (entry == null) {
-                Expr body = rules == null ? null : rules.apply(r.name());
-                if (body == null) {
-                    throw new IllegalArgumentException("undefined rule " + r.name());
-                }
-                entry = node();
-                ruleEntries.put(key, entry);
-                work.push(new Task(body, entry, to));
-            }
-            nfa.addEpsilon(from, entry);
+            nfa.addEpsilon(from, ruleEntry(r, to));
         } else {
             throw new IllegalStateException("unknown expression " + e);
         }
+    }
+
+    /** The entry node of rule {@code r} wired to continue at {@code to}, made (and its body wired) on first use. */
+    private int ruleEntry(Expr.Ref r, int to) {
+        Integer number = ruleNumbers.get(r.name());
+        if (number == null) {
+            String ruleKey = Grammar.key(r.name());
+            number = ruleNumbers.get(ruleKey);
+            if (number == null) {
+                number = ruleCount++;
+                ruleNumbers.put(ruleKey, number);
+            }
+            ruleNumbers.put(r.name(), number);
+        }
+        long key = (long) number << 32 | to;
+        Integer entry = ruleEntries.get(key);
+        if (entry == null) {
+            Expr body = rules == null ? null : rules.apply(r.name());
+            if (body == null) {
+                throw new IllegalArgumentException("undefined rule " + r.name());
+            }
+            entry = node();
+            ruleEntries.put(key, entry);
+            work.push(new Task(body, entry, to));
+        }
+        return entry;
     }
 
     /** Code points lo..hi, surrogates excepted (they have no UTF-8 encoding). */

@@ -83,8 +83,11 @@ public interface Constraint {
         }
         if (!GrammarShape.reachesRecursion(grammar)) {
             try {
+                // subset construction makes hardly more states than the minimal automaton has (see
+                // ByteDfa.fromExpr), so a grammar past twice the limit is given up early
                 ByteDfa dfa = ByteDfa.fromExpr(Expr.ref(grammar.start()),
-                        name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit());
+                        name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit(),
+                        (int) Math.min(Integer.MAX_VALUE, 2L * settings.stateLimit()));
                 if (dfa.isEmpty()) {
                     throw new IllegalArgumentException("the grammar's language is empty: no output can satisfy it");
                 }
