@@ -60,8 +60,11 @@ public final class RunTokens {
         return maxDepth;
     }
 
-    /** Whether byte {@code b} (0..255) may occur in a run over the set. */
-    boolean holds(int b) {
+    /**
+     * Whether byte {@code b} (0..255) may occur in a run over the set of ASCII bytes {@code low/high}
+     * (with the multibyte characters when {@code multibyte}).
+     */
+    static boolean holds(long low, long high, boolean multibyte, int b) {
         return b < 64 ? (low >>> b & 1) != 0 : b < 128 ? (high >>> (b - 64) & 1) != 0 : multibyte;
     }
 

@@ -433,7 +433,7 @@ public final class VocabularyTrie {
             int ch = chars[i];
             int b = p & 0xFF;
             boolean pureHere = pure[d - 1]
-                    && (b < 64 ? (wholeLow >>> b & 1) != 0 : b < 128 ? (wholeHigh >>> (b - 64) & 1) != 0 : wholeMulti);
+                    && RunTokens.holds(wholeLow, wholeHigh, wholeMulti, b);
             if (pureHere && ch >= 0 && (belowLow[i] & ~wholeLow) == 0 && (belowHigh[i] & ~wholeHigh) == 0
                     && (wholeMulti || !multibyte[i])) {
                 i = skip[i]; // every token below is in whole, alive or dead as its length says
@@ -513,7 +513,7 @@ public final class VocabularyTrie {
             int d = depth[i];
             int b = label[i] & 0xFF;
             boolean p = pure[d - 1] && pending[i] >= 0
-                    && (b < 64 ? (low >>> b & 1) != 0 : b < 128 ? (high >>> (b - 64) & 1) != 0 : multibyte);
+                    && RunTokens.holds(low, high, multibyte, b);
             if (!p || d > maxDepth) {
                 // nothing below is a run over the set, or short enough
                 i = skip[i] - 1;
