@@ -573,8 +573,25 @@ public final class ByteDfa {
         boolean hasEpsilon;
         boolean[] accept = new boolean[16];
         int start;
+        /** The most nodes, and the state limit reported when a new node would cross it. */
+        private int nodeLimit = Integer.MAX_VALUE;
+        private int reportedLimit;
+        /** The UTF-8 byte ranges of the code point ranges met so far (the same classes recur). */
+        private final Map<Long, List<Utf8.ByteRanges>> encodings = new HashMap<>();
+        /** Nodes inside a character's encoding, by (next node, byte range): see {@link #addCodePoints}. */
+        private final Map<Long, Integer> innerNodes = new HashMap<>();
+
+        /** Limits the nodes to {@code nodeLimit}, reporting {@code stateLimit} when crossed. */
+        void limit(int nodeLimit, int stateLimit) {
+            this.nodeLimit = nodeLimit;
+            this.reportedLimit = stateLimit;
+        }
 
         int newNode() {
+            if (edges.size() >= nodeLimit) {
+                throw new AutomatonTooLargeException(reportedLimit,
+                        "the byte automaton exceeds its limit of " + reportedLimit + " states");
+            }
             edges.add(new int[6]);
             epsilon.add(null);
             int id = edges.size() - 1;
@@ -700,13 +717,27 @@ public final class ByteDfa {
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
         void addCodePoints(int from, int lo, int hi, int to) {
-            for (Utf8.ByteRanges r : Utf8.ranges(lo, hi)) {
-                int cur = from;
-                for (int i = 0; i < r.length(); i++) {
-                    int next = i == r.length() - 1 ? to : newNode();
-                    addEdge(cur, r.lo()[i], r.hi()[i], next);
-                    cur = next;
+            List<Utf8.ByteRanges> ranges = encodings.get((long) lo << 32 | hi);
+            if (ranges == null) {
+                ranges = Utf8.ranges(lo, hi);
+                encodings.put((long) lo << 32 | hi, ranges);
+            }
+            for (Utf8.ByteRanges r : ranges) {
+                // the nodes inside a character are shared from the end: one node per (byte range,
+                // next node), whatever leads to it, so that subset construction meets one state
+                // where it would meet one per path
+                int next = to;
+                for (int i = r.length() - 1; i > 0; i--) {
+                    long key = (long) next << 16 | r.lo()[i] << 8 | r.hi()[i];
+                    Integer inner = innerNodes.get(key);
+                    if (inner == null) {
+                        inner = newNode();
+                        addEdge(inner, r.lo()[i], r.hi()[i], next);
+                        innerNodes.put(key, inner);
+                    }
+                    next = inner;
                 }
+                addEdge(from, r.lo()[0], r.hi()[0], next);
             }
         }
 

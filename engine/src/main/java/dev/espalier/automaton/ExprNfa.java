@@ -23,16 +23,10 @@ final class ExprNfa {
 
     private final ByteDfa.ByteNfa nfa = new ByteDfa.ByteNfa();
     private final Function<String, Expr> rules;
-    private final int nodeLimit;
-    private final int stateLimit;
     /** Per rule key, a number; per (rule number, continuation node), the rule's entry node. */
     private final Map<String, Integer> ruleNumbers = new HashMap<>();
     private final Map<Long, Integer> ruleEntries = new HashMap<>();
     private int ruleCount;
-    /** The UTF-8 byte ranges of code point ranges met so far (the same classes recur in many rules). */
-    private final Map<Long, List<Utf8.ByteRanges>> encodings = new HashMap<>();
-    /** Nodes inside a character's encoding, by (next node, byte range): see {@link #addCodePoints}. */
-    private final Map<Long, Integer> innerNodes = new HashMap<>();
     private final Deque<Task> work = new ArrayDeque<>();
 
     /** Wire {@code expr} from node {@code from} to node {@code to}. */
@@ -41,8 +35,7 @@ final class ExprNfa {
 
     private ExprNfa(Function<String, Expr> rules, int nodeLimit, int stateLimit) {
         this.rules = rules;
-        this.nodeLimit = nodeLimit;
-        this.stateLimit = stateLimit;
+        nfa.limit(nodeLimit, stateLimit);
     }
 
     /**
@@ -69,10 +62,6 @@ final class ExprNfa {
     }
 
     private int node() {
-        if (nfa.size() >= nodeLimit) {
-            throw new AutomatonTooLargeException(stateLimit,
-                    "the byte automaton exceeds its limit of " + stateLimit + " states");
-        }
         return nfa.newNode();
     }
 
@@ -166,27 +155,7 @@ final class ExprNfa {
 
     /** Code points lo..hi, surrogates excepted (they have no UTF-8 encoding). */
     private void addCodePoints(int from, int lo, int hi, int to) {
-        List<Utf8.ByteRanges> ranges = encodings.get((long) lo << 32 | hi);
-        if (ranges == null) {
-            ranges = Utf8.ranges(lo, hi);
-            encodings.put((long) lo << 32 | hi, ranges);
-        }
-        for (Utf8.ByteRanges r : ranges) {
-            // the nodes inside a character are shared from the end: one node per (byte range, next
-            // node), whatever leads to it, so that subset construction meets one state, not one per path
-            int next = to;
-            for (int i = r.length() - 1; i > 0; i--) {
-                long key = (long) next << 16 | r.lo()[i] << 8 | r.hi()[i];
-                Integer inner = innerNodes.get(key);
-                if (inner == null) {
-                    inner = node();
-                    nfa.addEdge(inner, r.lo()[i], r.hi()[i], next);
-                    innerNodes.put(key, inner);
-                }
-                next = inner;
-            }
-            nfa.addEdge(from, r.lo()[0], r.hi()[0], next);
-        }
+        nfa.addCodePoints(from, lo, hi, to);
     }
 
     /**
