@@ -26,7 +26,6 @@ final class ExprNfa {
     /** Per rule key, a number; per (rule number, continuation node), the rule's entry node. */
     private final Map<String, Integer> ruleNumbers = new HashMap<>();
     private final Map<Long, Integer> ruleEntries = new HashMap<>();
-    private int ruleCount;
     private final Deque<Task> work = new ArrayDeque<>();
 
     /** Wire {@code expr} from node {@code from} to node {@code to}. */
@@ -50,8 +49,8 @@ final class ExprNfa {
      */
     static ByteDfa.ByteNfa of(Expr root, Function<String, Expr> rules, int nodeLimit, int stateLimit) {
         ExprNfa b = new ExprNfa(rules, nodeLimit, stateLimit);
-        int start = b.node();
-        int end = b.node();
+        int start = b.nfa.newNode();
+        int end = b.nfa.newNode();
         b.nfa.start = start;
         b.nfa.accept[end] = true;
         b.work.push(new Task(root, start, end));
@@ -61,10 +60,6 @@ final class ExprNfa {
         return b.nfa;
     }
 
-    private int node() {
-        return nfa.newNode();
-    }
-
     private void wire(Task t) {
         Expr e = t.expr();
         int from = t.from();
@@ -72,7 +67,7 @@ final class ExprNfa {
         if (e instanceof Expr.Chars c) {
             CodePointSet set = c.set();
             for (int i = 0; i < set.rangeCount(); i++) {
-                addCodePoints(from, set.lo(i), set.hi(i), to);
+                nfa.addCodePoints(from, set.lo(i), set.hi(i), to);
             }
         } else if (e instanceof Expr.Text x) {
             text(x.text(), x.ignoreCase(), from, to);
@@ -88,7 +83,7 @@ final class ExprNfa {
             }
             int cur = from;
             for (int i = 0; i <= last; i++) {
-                int next = i == last ? end : node();
+                int next = i == last ? end : nfa.newNode();
                 work.push(new Task(items.get(i), cur, next));
                 cur = next;
             }
@@ -102,19 +97,19 @@ final class ExprNfa {
         } else if (e instanceof Expr.Repeat r) {
             int cur = from;
             for (int i = 0; i < r.min(); i++) {
-                int next = node();
+                int next = nfa.newNode();
                 work.push(new Task(r.body(), cur, next));
                 cur = next;
             }
             if (r.unbounded()) {
-                int loop = node();
+                int loop = nfa.newNode();
                 nfa.addEpsilon(cur, loop);
                 work.push(new Task(r.body(), loop, loop));
                 nfa.addEpsilon(loop, to);
             } else {
                 for (int i = r.min(); i < r.max(); i++) {
                     nfa.addEpsilon(cur, to);
-                    int next = node();
+                    int next = nfa.newNode();
                     work.push(new Task(r.body(), cur, next));
                     cur = next;
                 }
@@ -129,15 +124,10 @@ final class ExprNfa {
 
     /** The entry node of rule {@code r} wired to continue at {@code to}, made (and its body wired) on first use. */
     private int ruleEntry(Expr.Ref r, int to) {
-        Integer number = ruleNumbers.get(r.name());
+        Integer number = ruleNumbers.get(Grammar.key(r.name()));
         if (number == null) {
-            String ruleKey = Grammar.key(r.name());
-            number = ruleNumbers.get(ruleKey);
-            if (number == null) {
-                number = ruleCount++;
-                ruleNumbers.put(ruleKey, number);
-            }
-            ruleNumbers.put(r.name(), number);
+            number = ruleNumbers.size();
+            ruleNumbers.put(Grammar.key(r.name()), number);
         }
         long key = (long) number << 32 | to;
         Integer entry = ruleEntries.get(key);
@@ -146,16 +136,11 @@ final class ExprNfa {
             if (body == null) {
                 throw new IllegalArgumentException("undefined rule " + r.name());
             }
-            entry = node();
+            entry = nfa.newNode();
             ruleEntries.put(key, entry);
             work.push(new Task(body, entry, to));
         }
         return entry;
-    }
-
-    /** Code points lo..hi, surrogates excepted (they have no UTF-8 encoding). */
-    private void addCodePoints(int from, int lo, int hi, int to) {
-        nfa.addCodePoints(from, lo, hi, to);
     }
 
     /**
@@ -176,14 +161,14 @@ final class ExprNfa {
             if (cp >= Character.MIN_SURROGATE && cp <= Character.MAX_SURROGATE) {
                 return; // no edge: the empty language
             }
-            int next = k == n - 1 ? to : node();
+            int next = k == n - 1 ? to : nfa.newNode();
             if (ignoreCase && cp < 128 && Character.isLetter(cp)) {
                 int lower = Character.toLowerCase(cp);
                 int upper = Character.toUpperCase(cp);
                 nfa.addEdge(cur, lower, lower, next);
                 nfa.addEdge(cur, upper, upper, next);
             } else {
-                addCodePoints(cur, cp, cp, next);
+                nfa.addCodePoints(cur, cp, cp, next);
             }
             cur = next;
         }

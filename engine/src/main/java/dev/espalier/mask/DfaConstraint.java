@@ -137,31 +137,31 @@ final class DfaConstraint implements Constraint {
      * {@link #computeByWalk} is the plain one-walk twin.
      */
     long[] compute(int state) {
+        LiveRuns.Whole whole = runs.whole(state);
         if (shortClass == null) {
             long[] m = new long[words];
-            walk(trie, state, m, trie.maxDepth());
+            walk(trie, state, m, trie.maxDepth(), whole);
             return m;
         }
         int key = shortClass[state];
         long[] shortMask = shortCache.get(key);
         if (shortMask == null) {
             shortMask = new long[words];
-            walk(trie, state, shortMask, SHORT);
+            walk(trie, state, shortMask, SHORT, whole);
             shortMask = shortCache.put(key, shortMask);
         }
         long[] m = shortMask.clone();
-        walk(longTrie, state, m, longTrie.maxDepth());
+        walk(longTrie, state, m, longTrie.maxDepth(), whole);
         return m;
     }
 
     /**
      * One walk of {@code t} from {@code state}; when the state's first runs are over a large set (text
-     * inside a string), the tokens made of that set are added in whole words instead of visited.
+     * inside a string, {@code whole}), the tokens made of that set are added in whole words instead of visited.
      */
-    private void walk(VocabularyTrie t, int state, long[] m, int maxDepth) {
-        LiveRuns.Whole w = runs.whole(state);
-        RunTokens whole = w == null ? null : t.runTokens(w.low(), w.high(), w.multibyte(), maxDepth);
-        t.collect(dfa::step, runs, state, m, maxDepth, whole, whole == null ? 0 : w.upTo());
+    private void walk(VocabularyTrie t, int state, long[] m, int maxDepth, LiveRuns.Whole whole) {
+        RunTokens tokens = whole == null ? null : whole.tokens(t, maxDepth);
+        t.collect(dfa::step, runs, state, m, maxDepth, tokens, tokens == null ? 0 : whole.upTo());
     }
 
     /** The mask of {@code state} by one plain walk of the whole trie, every node stepped. */

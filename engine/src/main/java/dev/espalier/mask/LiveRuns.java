@@ -2,6 +2,7 @@ package dev.espalier.mask;
 
 import dev.espalier.automaton.ByteDfa;
 import dev.espalier.automaton.Utf8;
+import dev.espalier.vocab.RunTokens;
 import dev.espalier.vocab.VocabularyTrie;
 
 import java.util.ArrayList;
@@ -70,9 +71,12 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     /** The runs of one state, entries by ascending length; {@code I(k)} is empty past the last. */
     private static final class Runs {
         final Entry[] entries;
+        /** See {@link LiveRuns#whole}. */
+        final Whole whole;
 
         Runs(Entry[] entries) {
             this.entries = entries;
+            this.whole = wholeOf(entries);
         }
     }
 
@@ -165,7 +169,10 @@ final class LiveRuns implements VocabularyTrie.Coverage {
      * multibyte character (too few tokens to be worth a set of their own).
      */
     Whole whole(int state) {
-        Entry[] entries = of(state).entries;
+        return of(state).whole;
+    }
+
+    private static Whole wholeOf(Entry[] entries) {
         if (entries.length == 0) {
             return null;
         }
@@ -180,6 +187,11 @@ final class LiveRuns implements VocabularyTrie.Coverage {
 
     /** The runs over ASCII bytes {@code low/high} (and multibyte characters) that live for {@code upTo} characters and then die. */
     record Whole(long low, long high, boolean multibyte, int upTo) {
+
+        /** The tokens of {@code trie} of at most {@code maxDepth} bytes that are these runs (null past the trie's bound on sets). */
+        RunTokens tokens(VocabularyTrie trie, int maxDepth) {
+            return trie.runTokens(low, high, multibyte, maxDepth);
+        }
     }
 
     private synchronized Runs runsOf(int state) {

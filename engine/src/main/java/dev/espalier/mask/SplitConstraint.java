@@ -272,7 +272,7 @@ final class SplitConstraint extends ChartConstraint {
         ByteDfa dfa = grammar.terminal(t);
         VocabularyTrie tr = trie;
         Boundaries found = new Boundaries(dfa, tr);
-        RunTokens tokens = whole == null ? null : tr.runTokens(whole.low(), whole.high(), whole.multibyte(), tr.maxDepth());
+        RunTokens tokens = whole == null ? null : whole.tokens(tr, tr.maxDepth());
         tr.collect(dfa::step, coverage, q, inside != null ? inside : new long[words], tr.maxDepth(), found, tokens,
                 tokens == null ? 0 : whole.upTo());
         int[] out = found.children;

@@ -19,6 +19,8 @@ public final class RunTokens {
     /** Lengths in characters up to which a mask is kept per length; longer tokens are listed. */
     static final int KEPT = 16;
 
+    /** The trie whose tokens these are. */
+    final VocabularyTrie trie;
     private final long low;
     private final long high;
     private final boolean multibyte;
@@ -29,8 +31,9 @@ public final class RunTokens {
     private final int[] longerIds;
     private final int[] longerChars;
 
-    RunTokens(long low, long high, boolean multibyte, int maxDepth, long[][] upTo, int[] longerIds,
-            int[] longerChars) {
+    RunTokens(VocabularyTrie trie, long low, long high, boolean multibyte, int maxDepth, long[][] upTo,
+            int[] longerIds, int[] longerChars) {
+        this.trie = trie;
         this.low = low;
         this.high = high;
         this.multibyte = multibyte;
@@ -101,7 +104,8 @@ public final class RunTokens {
      * Builds the masks from {@code exact}, the tokens of each length up to {@link #KEPT} characters
      * (index 0 unused; taken over), and the ids and lengths of the longer tokens (any order).
      */
-    static RunTokens of(long low, long high, boolean multibyte, int maxDepth, long[][] exact, int[] ids, int[] chars) {
+    static RunTokens of(VocabularyTrie trie, long low, long high, boolean multibyte, int maxDepth, long[][] exact,
+            int[] ids, int[] chars) {
         for (int c = 1; c <= KEPT; c++) {
             long[] m = exact[c];
             long[] before = exact[c - 1];
@@ -120,6 +124,6 @@ public final class RunTokens {
             longerIds[k] = (int) packed[k];
             longerChars[k] = (int) (packed[k] >>> 32);
         }
-        return new RunTokens(low, high, multibyte, maxDepth, exact, longerIds, longerChars);
+        return new RunTokens(trie, low, high, multibyte, maxDepth, exact, longerIds, longerChars);
     }
 }

@@ -397,8 +397,7 @@ public final class VocabularyTrie {
      */
     public void collect(Stepper stepper, Coverage coverage, int start, long[] mask, int maxDepth, Visitor visitor,
             RunTokens whole, int wholeUpTo) {
-        if (whole != null && (whole.maxDepth() != maxDepth || runTokens.get(new RunKey(whole.low(), whole.high(),
-                whole.multibyte(), maxDepth)) != whole)) {
+        if (whole != null && (whole.trie != this || whole.maxDepth() != maxDepth)) {
             throw new IllegalArgumentException("run tokens of another trie or depth");
         }
         int[] at = new int[this.maxDepth + 1];
@@ -434,8 +433,7 @@ public final class VocabularyTrie {
             int b = p & 0xFF;
             boolean pureHere = pure[d - 1]
                     && RunTokens.holds(wholeLow, wholeHigh, wholeMulti, b);
-            if (pureHere && ch >= 0 && (belowLow[i] & ~wholeLow) == 0 && (belowHigh[i] & ~wholeHigh) == 0
-                    && (wholeMulti || !multibyte[i])) {
+            if (pureHere && onlyRunsBelow(i, wholeLow, wholeHigh, wholeMulti)) {
                 i = skip[i]; // every token below is in whole, alive or dead as its length says
                 continue;
             }
@@ -523,8 +521,7 @@ public final class VocabularyTrie {
                 ranges = Arrays.copyOf(ranges, 2 * ranges.length);
             }
             ranges[count++] = tokenStart[i];
-            if (chars[i] >= 0 && (belowLow[i] & ~low) == 0 && (belowHigh[i] & ~high) == 0
-                    && (multibyte || !this.multibyte[i])) {
+            if (onlyRunsBelow(i, low, high, multibyte)) {
                 ranges[count++] = tokenStart[skip[i]];
                 i = skip[i] - 1;
             } else {
@@ -559,7 +556,17 @@ public final class VocabularyTrie {
             ids[k] = tokenIds[longer[k]];
             counts[k] = tokenChars[longer[k]];
         }
-        return RunTokens.of(low, high, multibyte, maxDepth, exact, ids, counts);
+        return RunTokens.of(this, low, high, multibyte, maxDepth, exact, ids, counts);
+    }
+
+    /**
+     * Whether every string below node {@code i} is a run over the set (well-formed UTF-8 from a
+     * character boundary, every byte in the set), so that a node whose path is such a run heads a
+     * subtree of such runs.
+     */
+    private boolean onlyRunsBelow(int i, long low, long high, boolean multibyte) {
+        return chars[i] >= 0 && (belowLow[i] & ~low) == 0 && (belowHigh[i] & ~high) == 0
+                && (multibyte || !this.multibyte[i]);
     }
 
     /** Number of nodes, the root included. */
