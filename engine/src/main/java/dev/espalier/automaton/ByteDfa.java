@@ -15,10 +15,10 @@ import java.util.Map;
 import java.util.function.Function;
 
 /**
- * A minimal deterministic automaton over bytes, in compact array form for the hot path. Every state
- * can reach an accepting state (the automaton is trimmed), so "not dead" means "can still be
- * completed". Bytes are grouped into equivalence classes; the transition table has one row per
- * state and one column per class.
+ * A deterministic automaton over bytes, in compact array form for the hot path: minimal, except when
+ * built by {@link #fromExprUnminimized}. Every state can reach an accepting state (the automaton is
+ * trimmed), so "not dead" means "can still be completed". Bytes are grouped into equivalence
+ * classes; the transition table has one row per state and one column per class.
  *
  * <p>Immutable and thread-safe.
  */
@@ -37,9 +37,12 @@ public final class ByteDfa {
     private final boolean[] accepting;
     private final int[] forcedByte;
     private final boolean[] hasNext;
+    /** Whether no two states are equivalent (see {@link #minimal()}). */
+    private final boolean minimal;
 
-    private ByteDfa(int start, byte[] classOf, int classCount, int[] table, boolean[] accepting) {
+    private ByteDfa(int start, byte[] classOf, int classCount, int[] table, boolean[] accepting, boolean minimal) {
         this.start = start;
+        this.minimal = minimal;
         this.classOf = classOf;
         this.classCount = classCount;
         this.table = table;
@@ -104,11 +107,49 @@ public final class ByteDfa {
      * before minimisation given: a caller with a cheaper plan B fails faster with a low one.
      */
     public static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit, int rawLimit) {
+        return fromExpr(expr, rules, stateLimit, rawLimit, true);
+    }
+
+    /**
+     * As {@link #fromExpr(Expr, Function, int, int)}, without the minimisation: subset construction
+     * and trimming only, so {@code stateLimit} bounds the trimmed automaton. The NFA shares the
+     * nodes inside a character's encoding and wires a rule once per continuation, so subset
+     * construction makes hardly more states than the minimal automaton has (inspection-report's
+     * schema: 7,219 against 7,182). For callers that group equivalent states themselves, as mask
+     * classes do ({@link #viableClasses}): equivalent states always share a block there.
+     * {@link #minimal()} gives the minimal automaton of the same language.
+     */
+    public static ByteDfa fromExprUnminimized(Expr expr, Function<String, Expr> rules, int stateLimit, int rawLimit) {
+        return fromExpr(expr, rules, stateLimit, rawLimit, false);
+    }
+
+    private static ByteDfa fromExpr(Expr expr, Function<String, Expr> rules, int stateLimit, int rawLimit,
+            boolean minimal) {
         if (stateLimit < 1 || rawLimit < stateLimit) {
             throw new IllegalArgumentException("limits must be positive and the raw limit at least the state limit");
         }
         ByteNfa nfa = ExprNfa.of(expr, rules, (int) Math.min(Integer.MAX_VALUE, 2L * rawLimit), stateLimit);
-        return determinize(nfa, rawLimit, stateLimit);
+        return determinize(nfa, rawLimit, stateLimit, minimal);
+    }
+
+    /**
+     * The minimal automaton of this language: this one when it was built minimal (by every factory
+     * but {@link #fromExprUnminimized}), else the result of minimising it.
+     */
+    public ByteDfa minimal() {
+        if (minimal || start == DEAD) {
+            return this;
+        }
+        List<int[]> rows = new ArrayList<>(stateCount());
+        for (int s = 0; s < stateCount(); s++) {
+            rows.add(Arrays.copyOfRange(table, s * classCount, (s + 1) * classCount));
+        }
+        int[] inputClass = new int[256];
+        for (int b = 0; b < 256; b++) {
+            inputClass[b] = classOf(b);
+        }
+        // the start state is 0 in every automaton built here
+        return minimize(rows, accepting, inputClass, true, null, false);
     }
 
     /**
@@ -150,7 +191,7 @@ public final class ByteDfa {
         for (int b = 0; b < 256; b++) {
             inputClass[b] = classOf(b);
         }
-        return minimize(rows, accept, inputClass);
+        return minimize(rows, accept, inputClass, true, null, false);
     }
 
     /** State {@code s}'s row with every target one higher (room for a new state 0). */
@@ -319,7 +360,11 @@ public final class ByteDfa {
         private final int[] groupBlock;
         private final int[] groupSize;
         private final int[] groupNew;
+        /** Per group, the touched number of its first state. */
         private final int[] groupFirst;
+        /** The signatures of this round's touched states, from {@link #sigStart}{@code [i]} for the i-th. */
+        private int[] sig;
+        private final int[] sigStart;
         private long[] slotKey;
         private int[] slotGroup;
         private int[] slotStamp;
@@ -332,21 +377,25 @@ public final class ByteDfa {
             int runs = 0;
             for (int st = 0; st < n; st++) {
                 runStart[st] = runs;
-                for (int c = 0; c < k; c++) {
-                    if (c == 0 || table[st * k + c] != table[st * k + c - 1]) {
-                        runs++;
-                    }
+                int base = st * k;
+                runs++;
+                for (int c = 1; c < k; c++) {
+                    runs += table[base + c] != table[base + c - 1] ? 1 : 0;
                 }
             }
             runStart[n] = runs;
-            runClass = new int[runs];
-            runTarget = new int[runs];
+            // one slot of slack: each class is written, and kept only when it starts a run
+            runClass = new int[runs + 1];
+            runTarget = new int[runs + 1];
             for (int st = 0, j = 0; st < n; st++) {
-                for (int c = 0; c < k; c++) {
-                    if (c == 0 || table[st * k + c] != table[st * k + c - 1]) {
-                        runClass[j] = c;
-                        runTarget[j++] = table[st * k + c];
-                    }
+                int base = st * k;
+                runClass[j] = 0;
+                runTarget[j++] = table[base];
+                for (int c = 1; c < k; c++) {
+                    int t = table[base + c];
+                    runClass[j] = c;
+                    runTarget[j] = t;
+                    j += t != table[base + c - 1] ? 1 : 0;
                 }
             }
             // predecessors of each state (one entry per run leading to it)
@@ -380,6 +429,8 @@ public final class ByteDfa {
             groupSize = new int[n];
             groupNew = new int[n];
             groupFirst = new int[n];
+            sigStart = new int[n + 1];
+            sig = new int[Math.max(16, 2 * runs)];
             // round 1 examines every state: all start in one block
             touched = new int[n];
             for (int i = 0; i < n; i++) {
@@ -400,46 +451,35 @@ public final class ByteDfa {
         /** Hash every signature alike (see {@link ByteDfa#viableClasses(int[], boolean)}). */
         boolean collide;
 
-        private int hash(int st) {
-            if (collide) {
-                return 0;
+        /**
+         * Writes the signature of touched state number {@code i} (state {@code st}) into
+         * {@link #sig}: its row as pairs of the first class and the block of each maximal run of
+         * classes whose targets share a block (-1 for dead); returns its hash.
+         */
+        private int signature(int i, int st) {
+            int at = sigStart[i];
+            int need = at + 2 * (runStart[st + 1] - runStart[st]);
+            if (need > sig.length) {
+                sig = Arrays.copyOf(sig, Math.max(need, 2 * sig.length));
             }
             int h = 1;
             int last = Integer.MIN_VALUE;
             for (int j = runStart[st]; j < runStart[st + 1]; j++) {
                 int b = runBlock(j);
                 if (b != last) {
+                    sig[at++] = runClass[j];
+                    sig[at++] = b;
                     h = (h * 31 + runClass[j]) * 31 + b;
                     last = b;
                 }
             }
-            return h;
+            sigStart[i + 1] = at;
+            return collide ? 0 : h;
         }
 
-        /** Whether two states' rows, read as runs of blocks, are equal. */
+        /** Whether touched states number {@code x} and {@code y} have equal signatures. */
         private boolean sameSignature(int x, int y) {
-            int i = runStart[x];
-            int ie = runStart[x + 1];
-            int j = runStart[y];
-            int je = runStart[y + 1];
-            int lastX = Integer.MIN_VALUE;
-            int lastY = Integer.MIN_VALUE;
-            while (true) {
-                while (i < ie && runBlock(i) == lastX) {
-                    i++;
-                }
-                while (j < je && runBlock(j) == lastY) {
-                    j++;
-                }
-                if (i == ie || j == je) {
-                    return i == ie && j == je;
-                }
-                lastX = runBlock(i);
-                lastY = runBlock(j);
-                if (lastX != lastY || runClass[i] != runClass[j]) {
-                    return false;
-                }
-            }
+            return Arrays.equals(sig, sigStart[x], sigStart[x + 1], sig, sigStart[y], sigStart[y + 1]);
         }
 
         /** One round: splits the blocks of the touched states, then touches the moved states' predecessors. */
@@ -456,7 +496,7 @@ public final class ByteDfa {
                 int st = touched[i];
                 int b = block[st];
                 touchedInBlock[b]++;
-                long key = (long) b << 32 | (hash(st) & 0xFFFFFFFFL);
+                long key = (long) b << 32 | (signature(i, st) & 0xFFFFFFFFL);
                 int slot = (int) ((key * 0x9E3779B97F4A7C15L) >>> 40) & mask;
                 int g;
                 while (true) {
@@ -467,10 +507,10 @@ public final class ByteDfa {
                         slotGroup[slot] = g;
                         groupBlock[g] = b;
                         groupSize[g] = 0;
-                        groupFirst[g] = st;
+                        groupFirst[g] = i;
                         break;
                     }
-                    if (slotKey[slot] == key && sameSignature(st, groupFirst[slotGroup[slot]])) {
+                    if (slotKey[slot] == key && sameSignature(i, groupFirst[slotGroup[slot]])) {
                         g = slotGroup[slot];
                         break;
                     }
@@ -581,6 +621,68 @@ public final class ByteDfa {
         /** Nodes inside a character's encoding, by (next node, byte range): see {@link #addCodePoints}. */
         private final Map<Long, Integer> innerNodes = new HashMap<>();
 
+        /**
+         * A map key made from packed numbers, multiplied by an odd constant (a bijection, so keys
+         * stay distinct): {@link Long#hashCode} folds the two halves by exclusive or, which sends
+         * many packed pairs (lo == hi, or swapped halves) to one bucket.
+         */
+        static long mixed(long packed) {
+            return packed * 0x9E3779B97F4A7C15L;
+        }
+
+        /** Whether every node can reach an accepting node (breadth-first over reversed edges and epsilon moves). */
+        boolean allCoReachable() {
+            int n = size();
+            int[] revStart = new int[n + 2];
+            for (int node = 0; node < n; node++) {
+                int[] e = edges.get(node);
+                for (int k = 0, c = edgeCounts[node]; k < c; k++) {
+                    revStart[e[3 * k + 2] + 2]++;
+                }
+                int[] eps = epsilon.get(node);
+                if (eps != null) {
+                    for (int to : eps) {
+                        revStart[to + 2]++;
+                    }
+                }
+            }
+            for (int i = 0; i < n; i++) {
+                revStart[i + 2] += revStart[i + 1];
+            }
+            int[] rev = new int[revStart[n + 1]];
+            for (int node = 0; node < n; node++) {
+                int[] e = edges.get(node);
+                for (int k = 0, c = edgeCounts[node]; k < c; k++) {
+                    rev[revStart[e[3 * k + 2] + 1]++] = node;
+                }
+                int[] eps = epsilon.get(node);
+                if (eps != null) {
+                    for (int to : eps) {
+                        rev[revStart[to + 1]++] = node;
+                    }
+                }
+            }
+            boolean[] reached = new boolean[n];
+            int[] queue = new int[n];
+            int tail = 0;
+            for (int node = 0; node < n; node++) {
+                if (accept[node]) {
+                    reached[node] = true;
+                    queue[tail++] = node;
+                }
+            }
+            for (int head = 0; head < tail; head++) {
+                int t = queue[head];
+                for (int k = revStart[t]; k < revStart[t + 1]; k++) {
+                    if (!reached[rev[k]]) {
+                        reached[rev[k]] = true;
+                        queue[tail++] = rev[k];
+                    }
+                }
+            }
+            return tail == n;
+        }
+
         /** Limits the nodes to {@code nodeLimit}, reporting {@code stateLimit} when crossed. */
         void limit(int nodeLimit, int stateLimit) {
             this.nodeLimit = nodeLimit;
@@ -637,32 +739,34 @@ public final class ByteDfa {
          */
         private int[][] nodeClosure;
 
-        /** The epsilon closure of a sorted set of nodes (its nodes with byte edges or acceptance), sorted; {@code mark} is scratch space per node. */
-        int[] closure(int[] set, int[] mark, int stamp) {
-            if (!hasEpsilon) {
-                return set;
-            }
-            if (nodeClosure == null) {
+        /**
+         * The epsilon closure of the first {@code count} nodes of {@code set} (in any order, repeats
+         * allowed): its nodes with byte edges or acceptance, sorted, each once. {@code mark} is
+         * scratch space per node. The result may be shared: callers do not write to it.
+         */
+        int[] closure(int[] set, int count, int[] mark, int stamp) {
+            if (hasEpsilon && nodeClosure == null) {
                 nodeClosure = new int[size()][];
             }
-            if (set.length == 1) {
-                // a single node's closure is kept sorted: shared, not copied (callers do not write to it)
-                int[] c = nodeClosure[set[0]];
-                if (c == null) {
-                    c = closureOf(set[0]);
-                    nodeClosure[set[0]] = c;
-                }
-                return c;
+            if (count == 1 && hasEpsilon) {
+                // a single node's closure is kept sorted: shared, not copied
+                return closureOf1(set[0]);
             }
             int n = 0;
-            int[] out = new int[Math.max(8, set.length * 2)];
-            for (int node : set) {
-                int[] c = nodeClosure[node];
-                if (c == null) {
-                    c = closureOf(node);
-                    nodeClosure[node] = c;
+            int[] out = new int[Math.max(8, count * 2)];
+            for (int i = 0; i < count; i++) {
+                int node = set[i];
+                if (!hasEpsilon) {
+                    if (mark[node] != stamp) {
+                        mark[node] = stamp;
+                        if (n == out.length) {
+                            out = Arrays.copyOf(out, n * 2);
+                        }
+                        out[n++] = node;
+                    }
+                    continue;
                 }
-                for (int x : c) {
+                for (int x : closureOf1(node)) {
                     if (mark[x] != stamp) {
                         mark[x] = stamp;
                         if (n == out.length) {
@@ -675,6 +779,16 @@ public final class ByteDfa {
             out = Arrays.copyOf(out, n);
             Arrays.sort(out);
             return out;
+        }
+
+        /** The closure of one node, computed on first use. */
+        private int[] closureOf1(int node) {
+            int[] c = nodeClosure[node];
+            if (c == null) {
+                c = closureOf(node);
+                nodeClosure[node] = c;
+            }
+            return c;
         }
 
         private int[] closureSeen;
@@ -717,10 +831,10 @@ public final class ByteDfa {
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
         void addCodePoints(int from, int lo, int hi, int to) {
-            List<Utf8.ByteRanges> ranges = encodings.get((long) lo << 32 | hi);
+            List<Utf8.ByteRanges> ranges = encodings.get(mixed((long) lo << 32 | hi));
             if (ranges == null) {
                 ranges = Utf8.ranges(lo, hi);
-                encodings.put((long) lo << 32 | hi, ranges);
+                encodings.put(mixed((long) lo << 32 | hi), ranges);
             }
             for (Utf8.ByteRanges r : ranges) {
                 // the nodes inside a character are shared from the end: one node per (byte range,
@@ -728,7 +842,7 @@ public final class ByteDfa {
                 // where it would meet one per path
                 int next = to;
                 for (int i = r.length() - 1; i > 0; i--) {
-                    long key = (long) next << 16 | r.lo()[i] << 8 | r.hi()[i];
+                    long key = mixed((long) next << 16 | r.lo()[i] << 8 | r.hi()[i]);
                     Integer inner = innerNodes.get(key);
                     if (inner == null) {
                         inner = newNode();
@@ -796,7 +910,7 @@ public final class ByteDfa {
 
     /** Subset construction with a state limit, then trimming and minimisation. */
     static ByteDfa determinize(ByteNfa nfa, int stateLimit) {
-        return determinize(nfa, stateLimit, stateLimit);
+        return determinize(nfa, stateLimit, stateLimit, true);
     }
 
     /**
@@ -805,7 +919,16 @@ public final class ByteDfa {
      * @param rawLimit   the most states subset construction may make before minimisation
      * @param stateLimit the most states the minimal automaton may have
      */
-    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit) {
+    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit, boolean minimal) {
+        return determinize(nfa, rawLimit, stateLimit, minimal, false);
+    }
+
+    /**
+     * As {@link #determinize(ByteNfa, int, int, boolean)}; with {@code collideColumns}, every column
+     * of the table hashes alike, so the byte classes are found by the path taken after a hash
+     * collision (for tests of that path).
+     */
+    static ByteDfa determinize(ByteNfa nfa, int rawLimit, int stateLimit, boolean minimal, boolean collideColumns) {
         // byte classes: bytes no edge boundary separates behave alike in every subset
         boolean[] cut = new boolean[257];
         cut[0] = true;
@@ -834,13 +957,21 @@ public final class ByteDfa {
         Map<IntSet, Integer> index = new HashMap<>();
         List<int[]> sets = new ArrayList<>();
         List<int[]> rows = new ArrayList<>();
-        int[] startSet = nfa.closure(new int[] {nfa.start}, mark, stamp++);
+        int[] startSet = nfa.closure(new int[] {nfa.start}, 1, mark, stamp++);
         index.put(new IntSet(startSet), 0);
         sets.add(startSet);
         ArrayDeque<Integer> work = new ArrayDeque<>();
         work.add(0);
+        // when every NFA node can reach acceptance, so can every state (a non-empty set of them):
+        // nothing to trim, and the columns are hashed for the byte classes as the rows are made
+        long[] columnHash = nfa.allCoReachable() ? new long[classes] : null;
         int[][] buckets = new int[classes][];
         int[] bucketSize = new int[classes];
+        // per class, the last state where some member edge starts at it, and where one ends at it
+        int[] startsAt = new int[classes];
+        int[] endsAt = new int[classes];
+        Arrays.fill(startsAt, -1);
+        Arrays.fill(endsAt, -1);
         while (!work.isEmpty()) {
             int d = work.poll();
             int[] members = sets.get(d);
@@ -850,7 +981,11 @@ public final class ByteDfa {
                 int c = edgeCounts[node];
                 for (int k = 0; k < c; k++) {
                     int to = e[3 * k + 2];
-                    for (int cl = classOf[e[3 * k]], last = classOf[e[3 * k + 1]]; cl <= last; cl++) {
+                    int first = classOf[e[3 * k]];
+                    int last = classOf[e[3 * k + 1]];
+                    startsAt[first] = d;
+                    endsAt[last] = d;
+                    for (int cl = first; cl <= last; cl++) {
                         if (buckets[cl] == null) {
                             buckets[cl] = new int[4];
                         } else if (bucketSize[cl] == buckets[cl].length) {
@@ -866,22 +1001,15 @@ public final class ByteDfa {
                 if (bucketSize[cl] == 0) {
                     continue;
                 }
-                // the members' edges are read in one order, so a class covered by the same edges as
-                // the class before it has the same bucket, element for element: the same target
-                if (cl > 0 && bucketSize[cl] == bucketSize[cl - 1]
-                        && Arrays.equals(buckets[cl], 0, bucketSize[cl], buckets[cl - 1], 0, bucketSize[cl])) {
+                // edges cover runs of classes: when no member edge starts at this class or ends at
+                // the one before, both are covered by the same edges, read in one order, so their
+                // buckets are equal element for element: the same target
+                if (cl > 0 && bucketSize[cl - 1] > 0 && startsAt[cl] != d && endsAt[cl - 1] != d) {
                     row[cl] = row[cl - 1];
                     continue;
                 }
-                int[] target = Arrays.copyOf(buckets[cl], bucketSize[cl]);
-                Arrays.sort(target);
-                int m = 0;
-                for (int i = 0; i < target.length; i++) {
-                    if (i == 0 || target[i] != target[i - 1]) {
-                        target[m++] = target[i];
-                    }
-                }
-                IntSet key = new IntSet(nfa.closure(Arrays.copyOf(target, m), mark, stamp++));
+                // the closure drops repeated nodes and sorts
+                IntSet key = new IntSet(nfa.closure(buckets[cl], bucketSize[cl], mark, stamp++));
                 Integer id = index.get(key);
                 if (id == null) {
                     id = sets.size();
@@ -895,10 +1023,13 @@ public final class ByteDfa {
                 }
                 row[cl] = id;
             }
-            while (rows.size() <= d) {
-                rows.add(null);
+            // states are numbered as found and expanded in that order: rows come in state order
+            rows.add(row);
+            if (columnHash != null) {
+                for (int cl = 0; cl < classes; cl++) {
+                    columnHash[cl] = columnHash[cl] * 1_000_003L + row[cl];
+                }
             }
-            rows.set(d, row);
         }
         int n = sets.size();
         boolean[] accept = new boolean[n];
@@ -910,7 +1041,7 @@ public final class ByteDfa {
                 }
             }
         }
-        ByteDfa dfa = minimize(rows, accept, classOf);
+        ByteDfa dfa = minimize(rows, accept, classOf, minimal, columnHash, collideColumns);
         if (dfa.stateCount() > stateLimit) {
             throw new AutomatonTooLargeException(stateLimit,
                     "the byte automaton exceeds its limit of " + stateLimit + " states");
@@ -920,109 +1051,66 @@ public final class ByteDfa {
 
     /**
      * Trims {@code rows} to the states that can reach acceptance, groups bytes into classes, and
-     * minimises by Moore's partition refinement (rounds until the partition stops changing).
+     * when {@code minimal} merges equivalent states (Hopcroft's refinement, see {@link #hopcroft}).
      * {@code inputClass} is a byte partition every row respects (bytes of one class have one target
      * in every row), so one column per input class is enough to find the final classes.
+     *
+     * @param liveColumnHash null, or the hash of each column over all rows in order when every
+     *                       state is known to reach acceptance (nothing to trim)
      */
-    private static ByteDfa minimize(List<int[]> rows, boolean[] acc, int[] inputClass) {
+    private static ByteDfa minimize(List<int[]> rowList, boolean[] acc, int[] inputClass, boolean minimal,
+            long[] liveColumnHash, boolean collideColumns) {
         int n = acc.length;
-        // trim: keep states that can reach an accepting state (breadth-first over reversed edges)
-        int[] revStart = new int[n + 1];
-        for (int[] row : rows) {
-            for (int to : row) {
-                if (to != DEAD) {
-                    revStart[to + 1]++;
-                }
+        int[][] rows = rowList.toArray(new int[0][]);
+        boolean[] live;
+        if (liveColumnHash != null) {
+            live = new boolean[n];
+            Arrays.fill(live, true);
+        } else {
+            live = liveStates(rows, acc);
+            if (!live[0]) {
+                return new ByteDfa(DEAD, new byte[256], 1, new int[0], new boolean[0], true);
             }
-        }
-        for (int i = 0; i < n; i++) {
-            revStart[i + 1] += revStart[i];
-        }
-        int[] rev = new int[revStart[n]];
-        int[] fill = revStart.clone();
-        for (int i = 0; i < n; i++) {
-            for (int to : rows.get(i)) {
-                if (to != DEAD) {
-                    rev[fill[to]++] = i;
-                }
-            }
-        }
-        boolean[] live = acc.clone();
-        ArrayDeque<Integer> queue = new ArrayDeque<>();
-        for (int i = 0; i < n; i++) {
-            if (live[i]) {
-                queue.add(i);
-            }
-        }
-        while (!queue.isEmpty()) {
-            int t = queue.poll();
-            for (int k = revStart[t]; k < revStart[t + 1]; k++) {
-                if (!live[rev[k]]) {
-                    live[rev[k]] = true;
-                    queue.add(rev[k]);
-                }
-            }
-        }
-        if (!live[0]) {
-            return new ByteDfa(DEAD, new byte[256], 1, new int[0], new boolean[0]);
         }
         int[] renum = new int[n];
         int m = 0;
         for (int i = 0; i < n; i++) {
             renum[i] = live[i] ? m++ : DEAD;
         }
-        // byte classes: bytes whose columns agree over the live states; the columns are hashed
-        // reading the rows in order (row by row is far cheaper than column by column), and input
-        // classes with equal hashes are compared in full
         int inputs = 0;
         for (int b = 0; b < 256; b++) {
             inputs = Math.max(inputs, inputClass[b] + 1);
         }
-        long[] columnHash = new long[inputs];
-        for (int i = 0; i < n; i++) {
-            if (live[i]) {
-                int[] row = rows.get(i);
-                for (int c = 0; c < inputs; c++) {
-                    int to = row[c];
-                    columnHash[c] = columnHash[c] * 1_000_003L + (to == DEAD ? DEAD : renum[to]);
-                }
-            }
-        }
-        byte[] classOf = new byte[256];
-        int[] representative = new int[256];
-        int[] columnOfInput = new int[inputs];
-        Arrays.fill(columnOfInput, -1);
-        int[] seenInputs = new int[inputs];
-        int seenCount = 0;
-        int classes = 0;
-        for (int b = 0; b < 256; b++) {
-            int in = inputClass[b];
-            if (columnOfInput[in] < 0) {
-                for (int k = 0; k < seenCount && columnOfInput[in] < 0; k++) {
-                    int other = seenInputs[k];
-                    if (columnHash[other] == columnHash[in] && sameColumn(rows, live, renum, other, in)) {
-                        columnOfInput[in] = columnOfInput[other];
+        // byte classes: bytes whose columns agree over the live states. The columns are hashed
+        // reading the rows in order (row by row is far cheaper than column by column); input
+        // classes with equal hashes are taken as one, and checked while the table is built
+        long[] columnHash = liveColumnHash;
+        if (columnHash == null) {
+            columnHash = new long[inputs];
+            for (int i = 0; i < n; i++) {
+                if (live[i]) {
+                    int[] row = rows[i];
+                    for (int c = 0; c < inputs; c++) {
+                        columnHash[c] = columnHash[c] * 1_000_003L + target(row[c], renum);
                     }
                 }
-                if (columnOfInput[in] < 0) {
-                    representative[classes] = b;
-                    columnOfInput[in] = classes++;
-                }
-                seenInputs[seenCount++] = in;
             }
-            classOf[b] = (byte) columnOfInput[in];
         }
-        int[] delta = new int[m * classes];
-        boolean[] accepting = new boolean[m];
-        for (int i = 0; i < n; i++) {
-            if (!live[i]) {
-                continue;
-            }
-            accepting[renum[i]] = acc[i];
-            for (int c = 0; c < classes; c++) {
-                int to = rows.get(i)[inputClass[representative[c]]];
-                delta[renum[i] * classes + c] = to == DEAD ? DEAD : renum[to];
-            }
+        if (collideColumns) {
+            columnHash = new long[columnHash.length];
+        }
+        int[] columnOfInput = hashedColumns(columnHash);
+        Table t = table(rows, live, renum, acc, inputClass, columnOfInput, m);
+        if (t == null) {
+            // a hash collision: every match compared in full
+            t = table(rows, live, renum, acc, inputClass, comparedColumns(rows, live, renum, columnHash), m);
+        }
+        byte[] classOf = t.classOf;
+        int classes = t.classes;
+        int[] delta = t.delta;
+        boolean[] accepting = t.accepting;
+        if (!minimal) {
+            return new ByteDfa(0, classOf, classes, delta, accepting, false);
         }
         int[] block = hopcroft(m, classes, delta, accepting);
         int blocks = Arrays.stream(block).max().orElse(-1) + 1;
@@ -1046,14 +1134,148 @@ public final class ByteDfa {
                 table[b * classes + c] = to == DEAD ? DEAD : order[block[to]];
             }
         }
-        return new ByteDfa(0, classOf, classes, table, acceptingMin);
+        return new ByteDfa(0, classOf, classes, table, acceptingMin, true);
+    }
+
+    /** The states of {@code rows} that can reach an accepting state (breadth-first over reversed edges). */
+    private static boolean[] liveStates(int[][] rows, boolean[] acc) {
+        int n = acc.length;
+        // a target repeated in the next column adds nothing, and rows repeat targets in runs
+        int[] revStart = new int[n + 2];
+        for (int[] row : rows) {
+            for (int c = 0, last = DEAD; c < row.length; c++) {
+                int to = row[c];
+                if (to != DEAD && to != last) {
+                    revStart[to + 2]++;
+                }
+                last = to;
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            revStart[i + 2] += revStart[i + 1];
+        }
+        int[] rev = new int[revStart[n + 1]];
+        for (int i = 0; i < n; i++) {
+            int[] row = rows[i];
+            for (int c = 0, last = DEAD; c < row.length; c++) {
+                int to = row[c];
+                if (to != DEAD && to != last) {
+                    rev[revStart[to + 1]++] = i;
+                }
+                last = to;
+            }
+        }
+        // revStart[t] .. revStart[t + 1] now holds t's predecessors
+        boolean[] live = acc.clone();
+        int[] queue = new int[n];
+        int tail = 0;
+        for (int i = 0; i < n; i++) {
+            if (live[i]) {
+                queue[tail++] = i;
+            }
+        }
+        for (int head = 0; head < tail; head++) {
+            int t = queue[head];
+            for (int k = revStart[t]; k < revStart[t + 1]; k++) {
+                if (!live[rev[k]]) {
+                    live[rev[k]] = true;
+                    queue[tail++] = rev[k];
+                }
+            }
+        }
+        return live;
+    }
+
+    /** Per input class, the first input class with the same column hash: a guess that {@link #table} checks. */
+    static int[] hashedColumns(long[] columnHash) {
+        int[] guess = new int[columnHash.length];
+        Map<Long, Integer> first = new HashMap<>();
+        for (int in = 0; in < columnHash.length; in++) {
+            Integer f = first.putIfAbsent(columnHash[in], in);
+            guess[in] = f == null ? in : f;
+        }
+        return guess;
+    }
+
+    /** Byte classes and the transition table over the live states, before minimisation. */
+    private record Table(byte[] classOf, int classes, int[] delta, boolean[] accepting) {
+    }
+
+    /**
+     * The byte classes (numbered by first byte) and the table of the live states renumbered, when
+     * each input class has the column of the input class {@code columnOfInput} maps it to: checked
+     * row by row as the table is built, null when some row tells them apart.
+     */
+    private static Table table(int[][] rows, boolean[] live, int[] renum, boolean[] acc, int[] inputClass,
+            int[] columnOfInput, int m) {
+        int inputs = columnOfInput.length;
+        byte[] classOf = new byte[256];
+        int[] columnOfClass = new int[256];
+        int[] classOfColumn = new int[inputs];
+        Arrays.fill(classOfColumn, -1);
+        int classes = 0;
+        for (int b = 0; b < 256; b++) {
+            int col = columnOfInput[inputClass[b]];
+            if (classOfColumn[col] < 0) {
+                columnOfClass[classes] = col;
+                classOfColumn[col] = classes++;
+            }
+            classOf[b] = (byte) classOfColumn[col];
+        }
+        int[] merged = new int[inputs];
+        int mergedCount = 0;
+        for (int in = 0; in < inputs; in++) {
+            if (columnOfInput[in] != in) {
+                merged[mergedCount++] = in;
+            }
+        }
+        int[] delta = new int[m * classes];
+        boolean[] accepting = new boolean[m];
+        for (int i = 0; i < rows.length; i++) {
+            if (!live[i]) {
+                continue;
+            }
+            int[] row = rows[i];
+            for (int k = 0; k < mergedCount; k++) {
+                int in = merged[k];
+                if (target(row[in], renum) != target(row[columnOfInput[in]], renum)) {
+                    return null;
+                }
+            }
+            int base = renum[i] * classes;
+            accepting[renum[i]] = acc[i];
+            for (int c = 0; c < classes; c++) {
+                delta[base + c] = target(row[columnOfClass[c]], renum);
+            }
+        }
+        return new Table(classOf, classes, delta, accepting);
+    }
+
+    private static int target(int to, int[] renum) {
+        return to == DEAD ? DEAD : renum[to];
+    }
+
+    /** As {@link #hashedColumns}, each match compared in full: the path after a hash collision. */
+    private static int[] comparedColumns(int[][] rows, boolean[] live, int[] renum, long[] columnHash) {
+        int[] out = new int[columnHash.length];
+        for (int in = 0; in < columnHash.length; in++) {
+            out[in] = in;
+            for (int other = 0; other < in; other++) {
+                if (out[other] == other && columnHash[other] == columnHash[in]
+                        && sameColumn(rows, live, renum, other, in)) {
+                    out[in] = other;
+                    break;
+                }
+            }
+        }
+        return out;
     }
 
     /** Whether input classes {@code a} and {@code b} lead every live row to the same live state or both die. */
-    private static boolean sameColumn(List<int[]> rows, boolean[] live, int[] renum, int a, int b) {
+    private static boolean sameColumn(int[][] rows, boolean[] live, int[] renum, int a, int b) {
         for (int i = 0; i < live.length; i++) {
             if (live[i]) {
-                int[] row = rows.get(i);
+                int[] row = rows[i];
                 int x = row[a] == DEAD ? DEAD : renum[row[a]];
                 int y = row[b] == DEAD ? DEAD : renum[row[b]];
                 if (x != y) {

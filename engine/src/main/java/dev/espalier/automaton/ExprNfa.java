@@ -5,6 +5,7 @@ import dev.espalier.grammar.Expr;
 import dev.espalier.grammar.Grammar;
 
 import java.util.ArrayDeque;
+import java.util.ArrayList;
 import java.util.Deque;
 import java.util.HashMap;
 import java.util.List;
@@ -25,6 +26,9 @@ final class ExprNfa {
     private final Function<String, Expr> rules;
     /** Per rule key, a number; per (rule number, continuation node), the rule's entry node. */
     private final Map<String, Integer> ruleNumbers = new HashMap<>();
+    /** Rule numbers by name as written (names differing in case only share a number), and bodies by number. */
+    private final Map<String, Integer> numberByName = new HashMap<>();
+    private final List<Expr> bodies = new ArrayList<>();
     private final Map<Long, Integer> ruleEntries = new HashMap<>();
     private final Deque<Task> work = new ArrayDeque<>();
 
@@ -124,15 +128,11 @@ final class ExprNfa {
 
     /** The entry node of rule {@code r} wired to continue at {@code to}, made (and its body wired) on first use. */
     private int ruleEntry(Expr.Ref r, int to) {
-        Integer number = ruleNumbers.get(Grammar.key(r.name()));
-        if (number == null) {
-            number = ruleNumbers.size();
-            ruleNumbers.put(Grammar.key(r.name()), number);
-        }
-        long key = (long) number << 32 | to;
+        int number = ruleNumber(r.name());
+        long key = ByteDfa.ByteNfa.mixed((long) number << 32 | to);
         Integer entry = ruleEntries.get(key);
         if (entry == null) {
-            Expr body = rules == null ? null : rules.apply(r.name());
+            Expr body = bodies.get(number);
             if (body == null) {
                 throw new IllegalArgumentException("undefined rule " + r.name());
             }
@@ -141,6 +141,22 @@ final class ExprNfa {
             work.push(new Task(body, entry, to));
         }
         return entry;
+    }
+
+    /** The number of the rule named {@code name}; rule names are looked up as written first, folded only when new. */
+    private int ruleNumber(String name) {
+        Integer number = numberByName.get(name);
+        if (number == null) {
+            String key = Grammar.key(name);
+            number = ruleNumbers.get(key);
+            if (number == null) {
+                number = ruleNumbers.size();
+                ruleNumbers.put(key, number);
+                bodies.add(rules == null ? null : rules.apply(name));
+            }
+            numberByName.put(name, number);
+        }
+        return number;
     }
 
     /**

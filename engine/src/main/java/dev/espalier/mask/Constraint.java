@@ -85,7 +85,7 @@ public interface Constraint {
             try {
                 // subset construction makes hardly more states than the minimal automaton has (see
                 // ByteDfa.fromExpr), so a grammar past twice the limit is given up early
-                ByteDfa dfa = ByteDfa.fromExpr(Expr.ref(grammar.start()),
+                ByteDfa dfa = ByteDfa.fromExprUnminimized(Expr.ref(grammar.start()),
                         name -> grammar.rule(name).map(Rule::body).orElse(null), settings.stateLimit(),
                         (int) Math.min(Integer.MAX_VALUE, 2L * settings.stateLimit()));
                 if (dfa.isEmpty()) {

@@ -1,14 +1,13 @@
 package dev.espalier.mask;
 
 import dev.espalier.grammar.Expr;
-import dev.espalier.grammar.ExprFold;
 import dev.espalier.grammar.Grammar;
 import dev.espalier.grammar.Rule;
 
-import java.util.ArrayDeque;
 import java.util.ArrayList;
-import java.util.Deque;
+import java.util.Arrays;
 import java.util.HashMap;
+import java.util.IdentityHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -20,52 +19,80 @@ final class GrammarShape {
 
     /** Whether some rule reachable from the start rule refers to itself, directly or not. */
     static boolean reachesRecursion(Grammar g) {
-        Map<String, List<String>> refs = new HashMap<>();
-        for (Rule r : g.rules()) {
-            refs.put(r.key(), references(r.body()));
+        // iterative depth-first search over rules with colours (on the path, done), each rule's
+        // references listed when it is entered: only the reachable rules are read
+        Map<Rule, Boolean> onPath = new IdentityHashMap<>();
+        List<Rule[]> refs = new ArrayList<>();
+        List<Expr> work = new ArrayList<>();
+        int[] next = new int[16];
+        Rule start = g.rule(g.start()).orElse(null);
+        if (start == null) {
+            return false;
         }
-        // iterative depth-first search with colours: 1 = on the path, 2 = done
-        Map<String, Integer> colour = new HashMap<>();
-        Deque<String[]> stack = new ArrayDeque<>();
-        Deque<Integer> next = new ArrayDeque<>();
-        String start = Grammar.key(g.start());
-        stack.push(new String[] {start});
-        next.push(0);
-        colour.put(start, 1);
-        while (!stack.isEmpty()) {
-            String node = stack.peek()[0];
-            List<String> out = refs.getOrDefault(node, List.of());
-            int i = next.pop();
-            if (i < out.size()) {
-                next.push(i + 1);
-                String child = out.get(i);
-                Integer c = colour.get(child);
+        onPath.put(start, true);
+        Map<String, Rule> byName = new HashMap<>();
+        refs.add(references(g, start.body(), work, byName));
+        int depth = 0;
+        while (depth >= 0) {
+            Rule[] out = refs.get(depth);
+            if (next[depth] < out.length) {
+                Rule child = out[next[depth]++];
+                Boolean c = onPath.get(child);
                 if (c == null) {
-                    colour.put(child, 1);
-                    stack.push(new String[] {child});
-                    next.push(0);
-                } else if (c == 1) {
+                    onPath.put(child, true);
+                    depth++;
+                    if (depth == next.length) {
+                        next = Arrays.copyOf(next, 2 * depth);
+                    }
+                    next[depth] = 0;
+                    if (refs.size() == depth) {
+                        refs.add(null);
+                    }
+                    refs.set(depth, references(g, child.body(), work, byName));
+                } else if (c) {
                     return true;
                 }
             } else {
-                colour.put(node, 2);
-                stack.pop();
+                onPath.put(findRule(refs, depth, next, start), false);
+                depth--;
             }
         }
         return false;
     }
 
-    private static List<String> references(Expr body) {
-        List<String> out = new ArrayList<>();
-        Deque<Expr> work = new ArrayDeque<>();
-        work.push(body);
+    /** The rule at {@code depth} of the path: the one its parent's last visited reference names. */
+    private static Rule findRule(List<Rule[]> refs, int depth, int[] next, Rule start) {
+        return depth == 0 ? start : refs.get(depth - 1)[next[depth - 1] - 1];
+    }
+
+    /**
+     * The defined rules {@code body} refers to (undefined ones cannot recur); {@code byName} keeps
+     * the rules met so far by name as written, so a name is case-folded once.
+     */
+    private static Rule[] references(Grammar g, Expr body, List<Expr> work, Map<String, Rule> byName) {
+        List<Rule> out = new ArrayList<>();
+        work.clear();
+        work.add(body);
         while (!work.isEmpty()) {
-            Expr e = work.pop();
-            ExprFold.children(e).forEach(work::push);
+            Expr e = work.remove(work.size() - 1);
             if (e instanceof Expr.Ref r) {
-                out.add(Grammar.key(r.name()));
+                Rule rule = byName.get(r.name());
+                if (rule == null) {
+                    rule = g.rule(r.name()).orElse(null);
+                    if (rule == null) {
+                        continue;
+                    }
+                    byName.put(r.name(), rule);
+                }
+                out.add(rule);
+            } else if (e instanceof Expr.Seq q) {
+                work.addAll(q.items());
+            } else if (e instanceof Expr.Choice c) {
+                work.addAll(c.options());
+            } else if (e instanceof Expr.Repeat r) {
+                work.add(r.body());
             }
         }
-        return out;
+        return out.toArray(new Rule[0]);
     }
 }

@@ -90,6 +90,18 @@ class ExprNfaDifferentialTest {
         ByteDfa fast = ByteDfa.fromExpr(e, rules, LIMIT);
         assertNull(difference(slow, fast), () -> where + ": the languages differ on the bytes shown");
         assertEquals(slow.stateCount(), fast.stateCount(), () -> where + ": minimal automata differ in size");
+        // without minimisation: the same language, no state that cannot be completed, and the same minimal automaton
+        ByteDfa unminimized = ByteDfa.fromExprUnminimized(e, rules, LIMIT, LIMIT);
+        assertNull(difference(slow, unminimized), () -> where + " (unminimized): the languages differ on the bytes shown");
+        for (int s = 0; s < unminimized.stateCount(); s++) {
+            int state = s;
+            assertTrue(unminimized.accepts(s) || unminimized.canContinue(s),
+                    () -> where + " (unminimized): state " + state + " cannot be completed");
+        }
+        assertTrue(unminimized.stateCount() >= slow.stateCount(), where);
+        assertEquals(slow.stateCount(), unminimized.minimal().stateCount(),
+                () -> where + ": the unminimized automaton minimises to another size");
+        assertNull(difference(slow, unminimized.minimal()), () -> where + " (minimised again): the languages differ");
         ByteDfa fastWithoutEmpty = fast.withoutEmptyString();
         assertNull(difference(slowWithoutEmpty, fastWithoutEmpty),
                 () -> where + " (without the empty string): the languages differ on the bytes shown");
@@ -195,6 +207,56 @@ class ExprNfaDifferentialTest {
             }
         }
         assertTrue(compared >= 20, "schemas compared: " + compared);
+    }
+
+    @Test
+    void byteClassesAfterAHashCollisionAreTheSame() throws IOException {
+        // every column hashed alike: the classes come from comparing columns in full; large schemas
+        // included (the unminimized route, as Constraint.grammar takes it) and a trimmed one
+        List<Path> files;
+        try (Stream<Path> s = Files.list(Path.of("..", "grammars", "schemas"))) {
+            files = s.filter(p -> p.toString().endsWith(".schema.json")).sorted().toList();
+        }
+        int compared = 0;
+        int merged = 0;
+        for (Path f : files) {
+            Grammar g = JsonSchemas.compile(Files.readString(f, StandardCharsets.UTF_8), SchemaOptions.defaults()).grammar();
+            if (recursive(g, g.start())) {
+                continue;
+            }
+            Function<String, Expr> rules = n -> g.rule(n).map(Rule::body).orElse(null);
+            for (boolean minimal : new boolean[] {false, true}) {
+                ByteDfa hashed;
+                try {
+                    hashed = ByteDfa.determinize(ExprNfa.of(Expr.ref(g.start()), rules, 4 * LIMIT, LIMIT),
+                            2 * LIMIT, LIMIT, minimal, false);
+                } catch (AutomatonTooLargeException e) {
+                    continue; // a schema the constraint leaves to the parser
+                }
+                ByteDfa collided = ByteDfa.determinize(ExprNfa.of(Expr.ref(g.start()), rules, 4 * LIMIT, LIMIT),
+                        2 * LIMIT, LIMIT, minimal, true);
+                assertEquals(hashed.classCount(), collided.classCount(), f.toString());
+                assertEquals(hashed.stateCount(), collided.stateCount(), f.toString());
+                for (int b = 0; b < 256; b++) {
+                    for (int c = 0; c < b; c++) {
+                        assertEquals(hashed.classOf(b) == hashed.classOf(c), collided.classOf(b) == collided.classOf(c));
+                    }
+                }
+                assertNull(difference(hashed, collided), f.toString());
+                compared++;
+            }
+        }
+        // a language whose NFA has a node that cannot reach acceptance: the trimmed path
+        Expr withDeadEnd = Expr.choice(Expr.text("ab"), Expr.seq(Expr.text("ac"), Expr.chars(CodePointSet.range('x', 'w'))));
+        ByteDfa.ByteNfa nfa = ExprNfa.of(withDeadEnd, null, LIMIT, LIMIT);
+        assertTrue(!nfa.allCoReachable());
+        for (boolean collide : new boolean[] {false, true}) {
+            ByteDfa d = ByteDfa.determinize(ExprNfa.of(withDeadEnd, null, LIMIT, LIMIT), LIMIT, LIMIT, false, collide);
+            assertTrue(d.matches("ab".getBytes(StandardCharsets.UTF_8)));
+            assertEquals(ByteDfa.DEAD, d.step(d.step(d.start(), 'a'), 'c'));
+            assertEquals(3, d.stateCount());
+        }
+        assertTrue(compared >= 40, "automata compared: " + compared);
     }
 
     @Test
