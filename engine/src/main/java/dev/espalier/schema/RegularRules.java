@@ -64,7 +64,11 @@ public final class RegularRules {
         return of(prefix, automaton, budget, false);
     }
 
-    /** As {@link #of(String, Automaton)}, skipping minimisation for an automaton known to be minimal. */
+    /**
+     * As {@link #of(String, Automaton)}, for an automaton known to be minimal and to accept only
+     * well-formed UTF-16 (no lone surrogates), as {@link StringLengths#bounded} and
+     * {@link dev.espalier.automaton.CharAutomata} make them: it is read without minimising again.
+     */
     static RegularFragment ofMinimal(String prefix, Automaton minimal) {
         return of(prefix, minimal, SIZE_BUDGET, true);
     }
@@ -149,13 +153,17 @@ public final class RegularRules {
             return accept.length;
         }
 
+        /**
+         * @param minimal whether {@code input} is known to be minimal and deterministic, with only
+         *                well-formed UTF-16 strings (every surrogate in a pair): then it is read as
+         *                it is; otherwise it is restricted to well-formed strings and minimised first
+         */
         static CodePointDfa of(Automaton input, boolean minimal) {
             Automaton a;
-            boolean surrogates = touchesSurrogates(input);
-            if (minimal && input.isDeterministic() && !surrogates) {
+            if (minimal && input.isDeterministic()) {
                 a = input; // only read
             } else {
-                a = surrogates ? input.intersection(wellFormedUtf16()) : input.clone();
+                a = touchesSurrogates(input) ? input.intersection(wellFormedUtf16()) : input.clone();
                 a.minimize();
             }
             State init = a.getInitialState();
@@ -209,9 +217,10 @@ public final class RegularRules {
             }
             // trim: keep states from which acceptance is reachable
             boolean[] live = accept.clone();
+            // targets mostly come after their sources (numbered breadth first): from the end, each pass goes far
             for (boolean changed = true; changed; ) {
                 changed = false;
-                for (int i = 0; i < n; i++) {
+                for (int i = n - 1; i >= 0; i--) {
                     if (!live[i]) {
                         int[] st = steps.get(i);
                         for (int k = 0; k < st.length; k += 3) {
@@ -544,7 +553,12 @@ public final class RegularRules {
      * it (RFC 5234 section 2.3 folds only letters) but lets it print as a plain quoted string.
      */
     static Expr text(String s) {
-        return new Expr.Text(s, s.chars().noneMatch(c -> c < 128 && Character.isLetter(c)), Span.NONE);
+        boolean letters = false;
+        for (int i = 0; i < s.length() && !letters; i++) {
+            char c = s.charAt(i);
+            letters = c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z';
+        }
+        return new Expr.Text(s, !letters, Span.NONE);
     }
 
     private static boolean isEmptyString(Sized a) {

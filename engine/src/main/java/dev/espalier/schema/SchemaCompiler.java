@@ -1399,9 +1399,8 @@ final class SchemaCompiler {
             a.minimize(); // also keeps the length product small
         }
         if (shaped) {
-            a = StringLengths.bounded(a, f.minLength, f.maxLength, STATE_LIMIT);
-        }
-        if (a.getNumberOfStates() > STATE_LIMIT) {
+            a = StringLengths.bounded(a, f.minLength, f.maxLength, STATE_LIMIT); // checks the limit itself
+        } else if (a.getNumberOfStates() > STATE_LIMIT) {
             throw new AutomatonTooLargeException(STATE_LIMIT);
         }
         stringAutomata.put(f, a);

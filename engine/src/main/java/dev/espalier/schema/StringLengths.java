@@ -67,8 +67,10 @@ final class StringLengths {
         for (int q = 0; q < states.size(); q++) {
             steps[q] = states.get(q).getSortedTransitions(false).toArray(new Transition[0]);
         }
-        Automaton out = max < 0 ? cyclic(states, index, steps, min, stateLimit)
-                : acyclic(states, index, steps, min, max, stateLimit);
+        if (max >= 0) {
+            return acyclic(states, index, steps, min, max, stateLimit); // stops at stateLimit states itself
+        }
+        Automaton out = cyclic(states, index, steps, min, stateLimit);
         if (out.getNumberOfStates() > stateLimit) {
             throw new AutomatonTooLargeException(stateLimit);
         }
@@ -122,24 +124,34 @@ final class StringLengths {
             throw new AutomatonTooLargeException(stateLimit,
                     "a string length bound of " + max + " over an automaton of " + n + " states exceeds the product limit");
         }
-        // product state (q, c, p) is ((c * 2) + p) * n + q
+        // each step's target numbered once
+        int[][] dests = new int[n][];
+        for (int q = 0; q < n; q++) {
+            dests[q] = new int[steps[q].length];
+            for (int k = 0; k < steps[q].length; k++) {
+                dests[q][k] = index.get(steps[q][k].getDest());
+            }
+        }
+        // product state (q, c, p) is ((c * 2) + p) * n + q; breadth first, the queue an int array
         boolean[] reached = new boolean[(int) size];
-        ArrayDeque<Integer> work = new ArrayDeque<>();
+        int[][] work = {new int[64]};
+        int[] tail = {1};
         reached[0] = true;
-        work.add(0);
-        while (!work.isEmpty()) {
-            int id = work.poll();
+        for (int head = 0; head < tail[0]; head++) {
+            int id = work[0][head];
             int q = id % n;
             int c = id / n / 2;
             boolean p = (id / n) % 2 == 1;
-            for (Transition t : steps[q]) {
-                int dest = index.get(t.getDest());
-                split(t, dest, c, p, (lo, hi, tq, tc, tp) -> {
+            for (int k = 0; k < steps[q].length; k++) {
+                split(steps[q][k], dests[q][k], c, p, (lo, hi, tq, tc, tp) -> {
                     if (tc <= max) {
                         int tid = (tc * 2 + (tp ? 1 : 0)) * n + tq;
                         if (!reached[tid]) {
                             reached[tid] = true;
-                            work.add(tid);
+                            if (tail[0] == work[0].length) {
+                                work[0] = Arrays.copyOf(work[0], 2 * tail[0]);
+                            }
+                            work[0][tail[0]++] = tid;
                         }
                     }
                 });
@@ -159,9 +171,8 @@ final class StringLengths {
                     }
                     int[] len = {0};
                     int[][] buf = {buffer};
-                    for (Transition t : steps[q]) {
-                        int dest = index.get(t.getDest());
-                        split(t, dest, c, p == 1, (lo, hi, tq, tc, tp) -> {
+                    for (int j = 0; j < steps[q].length; j++) {
+                        split(steps[q][j], dests[q][j], c, p == 1, (lo, hi, tq, tc, tp) -> {
                             if (tc > max) {
                                 return;
                             }

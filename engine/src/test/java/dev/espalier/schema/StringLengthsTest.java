@@ -29,6 +29,10 @@ class StringLengthsTest {
         assertTrue(fast.subsetOf(slow), where + ": the product accepts a string the intersection does not");
         assertTrue(slow.subsetOf(fast), where + ": the intersection accepts a string the product does not");
         assertEquals(slow.getNumberOfStates(), fast.getNumberOfStates(), where + ": minimal automata differ in size");
+        // the schema compiler reads the product as it is (RegularRules.ofMinimal): it holds no lone
+        // surrogate, and reading it gives the rules that restricting and minimising it again gives
+        assertTrue(fast.subsetOf(RegularRules.CodePointDfa.wellFormedUtf16()), where + ": a lone surrogate is accepted");
+        assertEquals(RegularRules.of("p", fast).toString(), RegularRules.ofMinimal("p", fast).toString(), where);
     }
 
     private static final int[][] RANGES = {{0, 0}, {0, 1}, {1, 3}, {2, 10}, {0, 40}, {5, 60}, {3, -1}, {0, -1}, {12, 12}};
@@ -48,6 +52,8 @@ class StringLengthsTest {
         List<String> patterns = List.of("[a-c]*", "x[\uD83C\uDF4E\uD83C\uDF50]+y", "(ab|\uD801\uDC00)*", "[^z]*", "[\uD7FF-\uE001]*");
         for (String p : patterns) {
             Automaton a = dev.espalier.automaton.CharAutomata.compile(dev.espalier.regex.RegexSyntax.parse(p), null, LIMIT);
+            assertTrue(a.subsetOf(RegularRules.CodePointDfa.wellFormedUtf16()), p + ": a lone surrogate is accepted");
+            assertEquals(RegularRules.of("p", a).toString(), RegularRules.ofMinimal("p", a).toString(), p);
             for (int[] r : RANGES) {
                 same(p, a, r[0], r[1]);
             }
