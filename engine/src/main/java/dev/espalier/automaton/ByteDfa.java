@@ -619,7 +619,7 @@ public final class ByteDfa {
         /** The UTF-8 byte ranges of the code point ranges met so far (the same classes recur). */
         private final Map<Long, List<Utf8.ByteRanges>> encodings = new HashMap<>();
         /** Nodes inside a character's encoding, by (next node, byte range): see {@link #addCodePoints}. */
-        private final Map<Long, Integer> innerNodes = new HashMap<>();
+        private final LongIntTable innerNodes = new LongIntTable();
 
         /**
          * A map key made from packed numbers, multiplied by an odd constant (a bijection, so keys
@@ -831,6 +831,14 @@ public final class ByteDfa {
 
         /** Adds paths from {@code from} to {@code to} for the UTF-8 encodings of code points lo..hi. */
         void addCodePoints(int from, int lo, int hi, int to) {
+            if (lo < 0x80) {
+                // ASCII is its own one-byte encoding
+                addEdge(from, lo, Math.min(hi, 0x7F), to);
+                if (hi < 0x80) {
+                    return;
+                }
+                lo = 0x80;
+            }
             List<Utf8.ByteRanges> ranges = encodings.get(mixed((long) lo << 32 | hi));
             if (ranges == null) {
                 ranges = Utf8.ranges(lo, hi);
@@ -842,9 +850,9 @@ public final class ByteDfa {
                 // where it would meet one per path
                 int next = to;
                 for (int i = r.length() - 1; i > 0; i--) {
-                    long key = mixed((long) next << 16 | r.lo()[i] << 8 | r.hi()[i]);
-                    Integer inner = innerNodes.get(key);
-                    if (inner == null) {
+                    long key = (long) next << 16 | r.lo()[i] << 8 | r.hi()[i];
+                    int inner = innerNodes.get(key);
+                    if (inner == LongIntTable.MISSING) {
                         inner = newNode();
                         addEdge(inner, r.lo()[i], r.hi()[i], next);
                         innerNodes.put(key, inner);
@@ -957,11 +965,17 @@ public final class ByteDfa {
         Map<IntSet, Integer> index = new HashMap<>();
         List<int[]> sets = new ArrayList<>();
         List<int[]> rows = new ArrayList<>();
+        // most subsets are one node (a right-linear rule system is nearly deterministic): those are
+        // found by their node, every other subset by its nodes
+        int[] singleState = new int[nfa.size()];
+        Arrays.fill(singleState, -1);
         int[] startSet = nfa.closure(new int[] {nfa.start}, 1, mark, stamp++);
-        index.put(new IntSet(startSet), 0);
+        if (startSet.length == 1) {
+            singleState[startSet[0]] = 0;
+        } else {
+            index.put(new IntSet(startSet), 0);
+        }
         sets.add(startSet);
-        ArrayDeque<Integer> work = new ArrayDeque<>();
-        work.add(0);
         // when every NFA node can reach acceptance, so can every state (a non-empty set of them):
         // nothing to trim, and the columns are hashed for the byte classes as the rows are made
         long[] columnHash = nfa.allCoReachable() ? new long[classes] : null;
@@ -972,8 +986,8 @@ public final class ByteDfa {
         int[] endsAt = new int[classes];
         Arrays.fill(startsAt, -1);
         Arrays.fill(endsAt, -1);
-        while (!work.isEmpty()) {
-            int d = work.poll();
+        // states are numbered as found and expanded in that order
+        for (int d = 0; d < sets.size(); d++) {
             int[] members = sets.get(d);
             Arrays.fill(bucketSize, 0);
             for (int node : members) {
@@ -1009,25 +1023,30 @@ public final class ByteDfa {
                     continue;
                 }
                 // the closure drops repeated nodes and sorts
-                IntSet key = new IntSet(nfa.closure(buckets[cl], bucketSize[cl], mark, stamp++));
-                Integer id = index.get(key);
-                if (id == null) {
-                    id = sets.size();
-                    if (id >= rawLimit) {
-                        throw new AutomatonTooLargeException(stateLimit,
-                                "the byte automaton exceeds its limit of " + stateLimit + " states");
+                int[] target = nfa.closure(buckets[cl], bucketSize[cl], mark, stamp++);
+                int id;
+                if (target.length == 1) {
+                    id = singleState[target[0]];
+                    if (id < 0) {
+                        id = newState(sets, target, rawLimit, stateLimit);
+                        singleState[target[0]] = id;
                     }
-                    index.put(key, id);
-                    sets.add(key.values);
-                    work.add(id);
+                } else {
+                    IntSet key = new IntSet(target);
+                    Integer known = index.get(key);
+                    if (known == null) {
+                        known = newState(sets, target, rawLimit, stateLimit);
+                        index.put(key, known);
+                    }
+                    id = known;
                 }
                 row[cl] = id;
             }
-            // states are numbered as found and expanded in that order: rows come in state order
             rows.add(row);
             if (columnHash != null) {
+                long w = rowWeight(d);
                 for (int cl = 0; cl < classes; cl++) {
-                    columnHash[cl] = columnHash[cl] * 1_000_003L + row[cl];
+                    columnHash[cl] += row[cl] * w;
                 }
             }
         }
@@ -1047,6 +1066,17 @@ public final class ByteDfa {
                     "the byte automaton exceeds its limit of " + stateLimit + " states");
         }
         return dfa;
+    }
+
+    /** Numbers the subset {@code nodes} as the next state, within {@code rawLimit}. */
+    private static int newState(List<int[]> sets, int[] nodes, int rawLimit, int stateLimit) {
+        int id = sets.size();
+        if (id >= rawLimit) {
+            throw new AutomatonTooLargeException(stateLimit,
+                    "the byte automaton exceeds its limit of " + stateLimit + " states");
+        }
+        sets.add(nodes);
+        return id;
     }
 
     /**
@@ -1090,8 +1120,9 @@ public final class ByteDfa {
             for (int i = 0; i < n; i++) {
                 if (live[i]) {
                     int[] row = rows[i];
+                    long w = rowWeight(i);
                     for (int c = 0; c < inputs; c++) {
-                        columnHash[c] = columnHash[c] * 1_000_003L + target(row[c], renum);
+                        columnHash[c] += target(row[c], renum) * w;
                     }
                 }
             }
@@ -1238,14 +1269,25 @@ public final class ByteDfa {
             int[] row = rows[i];
             for (int k = 0; k < mergedCount; k++) {
                 int in = merged[k];
-                if (target(row[in], renum) != target(row[columnOfInput[in]], renum)) {
+                // renumbering is one to one on live states: comparing before it is enough, and
+                // two targets that differ may still both be trimmed
+                int x = row[in];
+                int y = row[columnOfInput[in]];
+                if (x != y && target(x, renum) != target(y, renum)) {
                     return null;
                 }
             }
             int base = renum[i] * classes;
             accepting[renum[i]] = acc[i];
-            for (int c = 0; c < classes; c++) {
-                delta[base + c] = target(row[columnOfClass[c]], renum);
+            if (m == rows.length) {
+                // nothing trimmed: state numbers stay
+                for (int c = 0; c < classes; c++) {
+                    delta[base + c] = row[columnOfClass[c]];
+                }
+            } else {
+                for (int c = 0; c < classes; c++) {
+                    delta[base + c] = target(row[columnOfClass[c]], renum);
+                }
             }
         }
         return new Table(classOf, classes, delta, accepting);
@@ -1253,6 +1295,18 @@ public final class ByteDfa {
 
     private static int target(int to, int[] renum) {
         return to == DEAD ? DEAD : renum[to];
+    }
+
+    /**
+     * The weight of row {@code i} in the column hashes (a column hashes to the sum of its entries
+     * times their rows' weights): odd, and spread by a 64-bit mix, so that unequal columns collide
+     * only by chance; a sum of independent terms is cheaper than a chained multiply per entry.
+     */
+    private static long rowWeight(int i) {
+        long z = (i + 1) * 0x9E3779B97F4A7C15L;
+        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+        return (z ^ (z >>> 31)) | 1;
     }
 
     /** As {@link #hashedColumns}, each match compared in full: the path after a hash collision. */

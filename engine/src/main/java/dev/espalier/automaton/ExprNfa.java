@@ -29,7 +29,7 @@ final class ExprNfa {
     /** Rule numbers by name as written (names differing in case only share a number), and bodies by number. */
     private final Map<String, Integer> numberByName = new HashMap<>();
     private final List<Expr> bodies = new ArrayList<>();
-    private final Map<Long, Integer> ruleEntries = new HashMap<>();
+    private final LongIntTable ruleEntries = new LongIntTable();
     private final Deque<Task> work = new ArrayDeque<>();
 
     /** Wire {@code expr} from node {@code from} to node {@code to}. */
@@ -129,9 +129,9 @@ final class ExprNfa {
     /** The entry node of rule {@code r} wired to continue at {@code to}, made (and its body wired) on first use. */
     private int ruleEntry(Expr.Ref r, int to) {
         int number = ruleNumber(r.name());
-        long key = ByteDfa.ByteNfa.mixed((long) number << 32 | to);
-        Integer entry = ruleEntries.get(key);
-        if (entry == null) {
+        long key = (long) number << 32 | to;
+        int entry = ruleEntries.get(key);
+        if (entry == LongIntTable.MISSING) {
             Expr body = bodies.get(number);
             if (body == null) {
                 throw new IllegalArgumentException("undefined rule " + r.name());
