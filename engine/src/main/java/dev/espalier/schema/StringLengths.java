@@ -132,36 +132,24 @@ final class StringLengths {
                 dests[q][k] = index.get(steps[q][k].getDest());
             }
         }
-        // product state (q, c, p) is ((c * 2) + p) * n + q; breadth first, the queue an int array
-        boolean[] reached = new boolean[(int) size];
-        int[][] work = {new int[64]};
-        int[] tail = {1};
-        reached[0] = true;
-        for (int head = 0; head < tail[0]; head++) {
-            int id = work[0][head];
+        // product state (q, c, p) is ((c * 2) + p) * n + q; breadth first
+        Reach reach = new Reach(n, max, (int) size);
+        reach.add(0);
+        for (int head = 0; head < reach.tail; head++) {
+            int id = reach.queue[head];
             int q = id % n;
             int c = id / n / 2;
             boolean p = (id / n) % 2 == 1;
             for (int k = 0; k < steps[q].length; k++) {
-                split(steps[q][k], dests[q][k], c, p, (lo, hi, tq, tc, tp) -> {
-                    if (tc <= max) {
-                        int tid = (tc * 2 + (tp ? 1 : 0)) * n + tq;
-                        if (!reached[tid]) {
-                            reached[tid] = true;
-                            if (tail[0] == work[0].length) {
-                                work[0] = Arrays.copyOf(work[0], 2 * tail[0]);
-                            }
-                            work[0][tail[0]++] = tid;
-                        }
-                    }
-                });
+                split(steps[q][k], dests[q][k], c, p, reach);
             }
         }
+        boolean[] reached = reach.reached;
         int[] cls = new int[(int) size];
         Map<Signature, Integer> classes = new HashMap<>();
         List<int[]> classSteps = new ArrayList<>();
         List<Boolean> classAccept = new ArrayList<>();
-        int[] buffer = new int[64];
+        Row row = new Row(cls, n, max);
         for (int c = max; c >= 0; c--) {
             for (int p = 1; p >= 0; p--) {
                 for (int q = 0; q < n; q++) {
@@ -169,39 +157,17 @@ final class StringLengths {
                     if (!reached[id]) {
                         continue;
                     }
-                    int[] len = {0};
-                    int[][] buf = {buffer};
+                    row.len = 0;
                     for (int j = 0; j < steps[q].length; j++) {
-                        split(steps[q][j], dests[q][j], c, p == 1, (lo, hi, tq, tc, tp) -> {
-                            if (tc > max) {
-                                return;
-                            }
-                            int target = cls[(tc * 2 + (tp ? 1 : 0)) * n + tq];
-                            if (target == DEAD) {
-                                return;
-                            }
-                            int k = len[0];
-                            if (k >= 3 && buf[0][k - 1] == target && buf[0][k - 2] + 1 == lo) {
-                                buf[0][k - 2] = hi; // adjacent range to the same class: merged
-                                return;
-                            }
-                            if (k + 3 > buf[0].length) {
-                                buf[0] = Arrays.copyOf(buf[0], buf[0].length * 2);
-                            }
-                            buf[0][k] = lo;
-                            buf[0][k + 1] = hi;
-                            buf[0][k + 2] = target;
-                            len[0] = k + 3;
-                        });
+                        split(steps[q][j], dests[q][j], c, p == 1, row);
                     }
-                    buffer = buf[0];
                     boolean accept = p == 0 && c >= min && states.get(q).isAccept();
-                    if (len[0] == 0 && !accept) {
+                    if (row.len == 0 && !accept) {
                         cls[id] = DEAD;
                         continue;
                     }
-                    int[] row = Arrays.copyOf(buffer, len[0]);
-                    Signature sig = new Signature(accept, row);
+                    int[] found = Arrays.copyOf(row.buf, row.len);
+                    Signature sig = new Signature(accept, found);
                     Integer known = classes.get(sig);
                     if (known == null) {
                         known = classSteps.size();
@@ -209,7 +175,7 @@ final class StringLengths {
                             throw new AutomatonTooLargeException(stateLimit);
                         }
                         classes.put(sig, known);
-                        classSteps.add(row);
+                        classSteps.add(found);
                         classAccept.add(accept);
                     }
                     cls[id] = known;
@@ -225,9 +191,9 @@ final class StringLengths {
             made[k].setAccept(classAccept.get(k));
         }
         for (int k = 0; k < made.length; k++) {
-            int[] row = classSteps.get(k);
-            for (int i = 0; i < row.length; i += 3) {
-                made[k].addTransition(new Transition((char) row[i], (char) row[i + 1], made[row[i + 2]]));
+            int[] st = classSteps.get(k);
+            for (int i = 0; i < st.length; i += 3) {
+                made[k].addTransition(new Transition((char) st[i], (char) st[i + 1], made[st[i + 2]]));
             }
         }
         Automaton out = new Automaton();
@@ -272,6 +238,76 @@ final class StringLengths {
         out.setDeterministic(true);
         out.minimize();
         return out;
+    }
+
+    /** The product states reached, breadth first: each step's target queued on first sight. */
+    private static final class Reach implements Steps {
+        final boolean[] reached;
+        int[] queue = new int[64];
+        int tail;
+        private final int n;
+        private final int max;
+
+        Reach(int n, int max, int size) {
+            this.n = n;
+            this.max = max;
+            this.reached = new boolean[size];
+        }
+
+        void add(int id) {
+            reached[id] = true;
+            if (tail == queue.length) {
+                queue = Arrays.copyOf(queue, 2 * tail);
+            }
+            queue[tail++] = id;
+        }
+
+        @Override
+        public void step(int lo, int hi, int q, int count, boolean pending) {
+            if (count <= max) {
+                int id = (count * 2 + (pending ? 1 : 0)) * n + q;
+                if (!reached[id]) {
+                    add(id);
+                }
+            }
+        }
+    }
+
+    /** The steps of one product state as (lo, hi, target class) triples, adjacent ranges to one class merged. */
+    private static final class Row implements Steps {
+        private final int[] cls;
+        private final int n;
+        private final int max;
+        int[] buf = new int[64];
+        int len;
+
+        Row(int[] cls, int n, int max) {
+            this.cls = cls;
+            this.n = n;
+            this.max = max;
+        }
+
+        @Override
+        public void step(int lo, int hi, int q, int count, boolean pending) {
+            if (count > max) {
+                return;
+            }
+            int target = cls[(count * 2 + (pending ? 1 : 0)) * n + q];
+            if (target == DEAD) {
+                return;
+            }
+            if (len >= 3 && buf[len - 1] == target && buf[len - 2] + 1 == lo) {
+                buf[len - 2] = hi; // adjacent range to the same class: merged
+                return;
+            }
+            if (len + 3 > buf.length) {
+                buf = Arrays.copyOf(buf, buf.length * 2);
+            }
+            buf[len] = lo;
+            buf[len + 1] = hi;
+            buf[len + 2] = target;
+            len += 3;
+        }
     }
 
     /** Acceptance and steps (lo, hi, target class triples, ascending) of a product state. */
