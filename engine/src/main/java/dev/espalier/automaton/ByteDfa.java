@@ -662,25 +662,13 @@ public final class ByteDfa {
                     }
                 }
             }
-            boolean[] reached = new boolean[n];
-            int[] queue = new int[n];
-            int tail = 0;
-            for (int node = 0; node < n; node++) {
-                if (accept[node]) {
-                    reached[node] = true;
-                    queue[tail++] = node;
+            boolean[] reached = backwards(revStart, rev, Arrays.copyOf(accept, n));
+            for (boolean r : reached) {
+                if (!r) {
+                    return false;
                 }
             }
-            for (int head = 0; head < tail; head++) {
-                int t = queue[head];
-                for (int k = revStart[t]; k < revStart[t + 1]; k++) {
-                    if (!reached[rev[k]]) {
-                        reached[rev[k]] = true;
-                        queue[tail++] = rev[k];
-                    }
-                }
-            }
-            return tail == n;
+            return true;
         }
 
         /** Limits the nodes to {@code nodeLimit}, reporting {@code stateLimit} when crossed. */
@@ -1197,24 +1185,32 @@ public final class ByteDfa {
             }
         }
         // revStart[t] .. revStart[t + 1] now holds t's predecessors
-        boolean[] live = acc.clone();
-        int[] queue = new int[n];
+        return backwards(revStart, rev, acc.clone());
+    }
+
+    /**
+     * Marks in {@code marked} (which it returns) every node that reaches a node marked on entry,
+     * breadth first over reversed edges: {@code rev[revStart[t] .. revStart[t + 1]]} are the
+     * predecessors of {@code t}.
+     */
+    private static boolean[] backwards(int[] revStart, int[] rev, boolean[] marked) {
+        int[] queue = new int[marked.length];
         int tail = 0;
-        for (int i = 0; i < n; i++) {
-            if (live[i]) {
+        for (int i = 0; i < marked.length; i++) {
+            if (marked[i]) {
                 queue[tail++] = i;
             }
         }
         for (int head = 0; head < tail; head++) {
             int t = queue[head];
             for (int k = revStart[t]; k < revStart[t + 1]; k++) {
-                if (!live[rev[k]]) {
-                    live[rev[k]] = true;
+                if (!marked[rev[k]]) {
+                    marked[rev[k]] = true;
                     queue[tail++] = rev[k];
                 }
             }
         }
-        return live;
+        return marked;
     }
 
     /** Per input class, the first input class with the same column hash: a guess that {@link #table} checks. */
