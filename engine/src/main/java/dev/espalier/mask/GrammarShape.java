@@ -21,7 +21,8 @@ final class GrammarShape {
     static boolean reachesRecursion(Grammar g) {
         // iterative depth-first search over rules with colours (on the path, done), each rule's
         // references listed when it is entered: only the reachable rules are read
-        Map<Rule, Boolean> onPath = new IdentityHashMap<>();
+        int rules = g.rules().size();
+        Map<Rule, Boolean> onPath = new IdentityHashMap<>(rules);
         List<Rule[]> refs = new ArrayList<>();
         List<Expr> work = new ArrayList<>();
         int[] next = new int[16];
@@ -30,7 +31,7 @@ final class GrammarShape {
             return false;
         }
         onPath.put(start, true);
-        Map<String, Rule> byName = new HashMap<>();
+        Map<String, Rule> byName = new HashMap<>(2 * rules);
         refs.add(references(g, start.body(), work, byName));
         int depth = 0;
         while (depth >= 0) {
@@ -86,9 +87,14 @@ final class GrammarShape {
                 }
                 out.add(rule);
             } else if (e instanceof Expr.Seq q) {
-                work.addAll(q.items());
+                // one by one: addAll would copy each list to an array first
+                for (Expr x : q.items()) {
+                    work.add(x);
+                }
             } else if (e instanceof Expr.Choice c) {
-                work.addAll(c.options());
+                for (Expr x : c.options()) {
+                    work.add(x);
+                }
             } else if (e instanceof Expr.Repeat r) {
                 work.add(r.body());
             }
