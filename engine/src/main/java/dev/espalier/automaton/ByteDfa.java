@@ -729,32 +729,22 @@ public final class ByteDfa {
 
         /**
          * The epsilon closure of the first {@code count} nodes of {@code set} (in any order, repeats
-         * allowed): its nodes with byte edges or acceptance, sorted, each once. {@code mark} is
-         * scratch space per node. The result may be shared: callers do not write to it.
+         * allowed): its nodes with byte edges or acceptance (without epsilon moves, the nodes
+         * themselves), sorted, each once. {@code mark} is scratch space per node. The result may be
+         * shared: callers do not write to it.
          */
         int[] closure(int[] set, int count, int[] mark, int stamp) {
-            if (hasEpsilon && nodeClosure == null) {
+            if (nodeClosure == null) {
                 nodeClosure = new int[size()][];
             }
-            if (count == 1 && hasEpsilon) {
+            if (count == 1) {
                 // a single node's closure is kept sorted: shared, not copied
                 return closureOf1(set[0]);
             }
             int n = 0;
             int[] out = new int[Math.max(8, count * 2)];
             for (int i = 0; i < count; i++) {
-                int node = set[i];
-                if (!hasEpsilon) {
-                    if (mark[node] != stamp) {
-                        mark[node] = stamp;
-                        if (n == out.length) {
-                            out = Arrays.copyOf(out, n * 2);
-                        }
-                        out[n++] = node;
-                    }
-                    continue;
-                }
-                for (int x : closureOf1(node)) {
+                for (int x : closureOf1(set[i])) {
                     if (mark[x] != stamp) {
                         mark[x] = stamp;
                         if (n == out.length) {
@@ -769,11 +759,11 @@ public final class ByteDfa {
             return out;
         }
 
-        /** The closure of one node, computed on first use. */
+        /** The closure of one node, computed on first use; without epsilon moves, the node alone. */
         private int[] closureOf1(int node) {
             int[] c = nodeClosure[node];
             if (c == null) {
-                c = closureOf(node);
+                c = hasEpsilon ? closureOf(node) : new int[] {node};
                 nodeClosure[node] = c;
             }
             return c;
@@ -1214,7 +1204,7 @@ public final class ByteDfa {
     }
 
     /** Per input class, the first input class with the same column hash: a guess that {@link #table} checks. */
-    static int[] hashedColumns(long[] columnHash) {
+    private static int[] hashedColumns(long[] columnHash) {
         int[] guess = new int[columnHash.length];
         Map<Long, Integer> first = new HashMap<>();
         for (int in = 0; in < columnHash.length; in++) {
@@ -1326,9 +1316,7 @@ public final class ByteDfa {
         for (int i = 0; i < live.length; i++) {
             if (live[i]) {
                 int[] row = rows[i];
-                int x = row[a] == DEAD ? DEAD : renum[row[a]];
-                int y = row[b] == DEAD ? DEAD : renum[row[b]];
-                if (x != y) {
+                if (target(row[a], renum) != target(row[b], renum)) {
                     return false;
                 }
             }

@@ -24,11 +24,11 @@ final class ExprNfa {
 
     private final ByteDfa.ByteNfa nfa = new ByteDfa.ByteNfa();
     private final Function<String, Expr> rules;
-    /** Per rule key, a number; per (rule number, continuation node), the rule's entry node. */
+    /** Per rule key, a number; the same by name as written (folded only when new); bodies by number. */
     private final Map<String, Integer> ruleNumbers = new HashMap<>();
-    /** Rule numbers by name as written (names differing in case only share a number), and bodies by number. */
     private final Map<String, Integer> numberByName = new HashMap<>();
     private final List<Expr> bodies = new ArrayList<>();
+    /** Per (rule number, continuation node), the rule's entry node. */
     private final LongIntTable ruleEntries = new LongIntTable();
     private final Deque<Task> work = new ArrayDeque<>();
 

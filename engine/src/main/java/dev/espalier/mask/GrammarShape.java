@@ -23,47 +23,42 @@ final class GrammarShape {
         // references listed when it is entered: only the reachable rules are read
         int rules = g.rules().size();
         Map<Rule, Boolean> onPath = new IdentityHashMap<>(rules);
-        List<Rule[]> refs = new ArrayList<>();
         List<Expr> work = new ArrayList<>();
-        int[] next = new int[16];
         Rule start = g.rule(g.start()).orElse(null);
         if (start == null) {
             return false;
         }
-        onPath.put(start, true);
+        // per depth of the path: its rule, the rule's references, and the next one to visit
+        Rule[] path = new Rule[16];
+        Rule[][] refs = new Rule[16][];
+        int[] next = new int[16];
         Map<String, Rule> byName = new HashMap<>(2 * rules);
-        refs.add(references(g, start.body(), work, byName));
+        path[0] = start;
+        refs[0] = references(g, start.body(), work, byName);
+        onPath.put(start, true);
         int depth = 0;
         while (depth >= 0) {
-            Rule[] out = refs.get(depth);
-            if (next[depth] < out.length) {
-                Rule child = out[next[depth]++];
+            if (next[depth] < refs[depth].length) {
+                Rule child = refs[depth][next[depth]++];
                 Boolean c = onPath.get(child);
                 if (c == null) {
                     onPath.put(child, true);
-                    depth++;
-                    if (depth == next.length) {
+                    if (++depth == path.length) {
+                        path = Arrays.copyOf(path, 2 * depth);
+                        refs = Arrays.copyOf(refs, 2 * depth);
                         next = Arrays.copyOf(next, 2 * depth);
                     }
+                    path[depth] = child;
+                    refs[depth] = references(g, child.body(), work, byName);
                     next[depth] = 0;
-                    if (refs.size() == depth) {
-                        refs.add(null);
-                    }
-                    refs.set(depth, references(g, child.body(), work, byName));
                 } else if (c) {
                     return true;
                 }
             } else {
-                onPath.put(findRule(refs, depth, next, start), false);
-                depth--;
+                onPath.put(path[depth--], false);
             }
         }
         return false;
-    }
-
-    /** The rule at {@code depth} of the path: the one its parent's last visited reference names. */
-    private static Rule findRule(List<Rule[]> refs, int depth, int[] next, Rule start) {
-        return depth == 0 ? start : refs.get(depth - 1)[next[depth - 1] - 1];
     }
 
     /**
