@@ -7,10 +7,9 @@ import dev.espalier.grammar.Span;
 import dk.brics.automaton.Automaton;
 import dk.brics.automaton.State;
 import dk.brics.automaton.Transition;
-import java.util.ArrayDeque;
 import java.util.ArrayList;
-import java.util.Deque;
 import java.util.IdentityHashMap;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -61,7 +60,7 @@ public final class RegularRules {
      * eliminations; negative, none (one rule per state).
      */
     static RegularFragment of(String prefix, Automaton automaton, int budget) {
-        return of(prefix, automaton, budget, false);
+        return of(prefix, automaton, budget, false, null);
     }
 
     /**
@@ -70,31 +69,69 @@ public final class RegularRules {
      * {@link dev.espalier.automaton.CharAutomata} make them: it is read without minimising again.
      */
     static RegularFragment ofMinimal(String prefix, Automaton minimal) {
-        return of(prefix, minimal, SIZE_BUDGET, true);
+        return of(prefix, minimal, SIZE_BUDGET, true, null);
     }
 
-    private static RegularFragment of(String prefix, Automaton automaton, int budget, boolean minimal) {
-        CodePointDfa dfa = CodePointDfa.of(automaton, minimal);
+    /**
+     * How the rules of a fragment are written out for their final use (the schema compiler escapes
+     * characters for JSON strings and splits literals for reading). {@code rule} must act on an
+     * expression as {@code leaf} on each of its leaves, with nested concatenations flattened one
+     * level and choices and repetitions rebuilt around their new parts.
+     */
+    interface Writer {
+        /** The written form of a step's label: a {@link Expr.Text} or a {@link Expr.Chars}. */
+        Expr leaf(Expr label);
+
+        /** The written form of a rule body. */
+        Expr rule(Expr body);
+    }
+
+    /**
+     * As {@link #ofMinimal(String, Automaton)} for an automaton given as arrays, with every helper
+     * rule written by {@code writer} (the body is left as it is). Where each state becomes a rule, labels are written as the
+     * equations are made, so thousands of state rules are not walked a second time; the rules are
+     * those of {@code writer.rule} over the rules of {@link #ofMinimal(String, Automaton)}.
+     */
+    static RegularFragment ofMinimal(String prefix, UnitDfa minimal, Writer writer) {
+        return of(prefix, CodePointDfa.of(minimal), SIZE_BUDGET, writer);
+    }
+
+    private static RegularFragment of(String prefix, Automaton automaton, int budget, boolean minimal, Writer writer) {
+        return of(prefix, CodePointDfa.of(automaton, minimal), budget, writer);
+    }
+
+    private static RegularFragment of(String prefix, CodePointDfa dfa, int budget, Writer writer) {
         if (dfa.size() == 0) {
             return new RegularFragment(Expr.choice(), List.of());
         }
         // all states eliminated within the budget: one expression; otherwise only the eliminations
         // that do not grow the expressions, and one rule per remaining state
         if (budget < 0) {
-            return new Elimination(dfa, 0).fragment(prefix);
+            return written(new Elimination(dfa, 0).fragment(prefix), writer);
         }
         if (budget > 0 && dfa.size() <= ELIMINATION_STATES) { // larger ones are not eliminated at all
             Elimination full = new Elimination(dfa, budget);
             if (full.eliminateAll()) {
-                return full.fragment(prefix);
+                return written(full.fragment(prefix), writer);
             }
         }
         if (dfa.size() > ELIMINATION_STATES) {
-            return stateRules(dfa, prefix); // what the elimination would leave: every state
+            return stateRules(dfa, prefix, writer); // what the elimination would leave: every state
         }
         Elimination cheap = new Elimination(dfa, 0);
         cheap.eliminateAll();
-        return cheap.fragment(prefix);
+        return written(cheap.fragment(prefix), writer);
+    }
+
+    private static RegularFragment written(RegularFragment raw, Writer writer) {
+        if (writer == null) {
+            return raw;
+        }
+        List<Rule> rules = new ArrayList<>(raw.rules().size());
+        for (Rule r : raw.rules()) {
+            rules.add(Rule.of(r.name(), writer.rule(r.body())));
+        }
+        return new RegularFragment(raw.body(), rules);
     }
 
     /**
@@ -103,7 +140,7 @@ public final class RegularRules {
      * its label tables (large automata, such as a format with a length bound, have thousands of
      * states).
      */
-    private static RegularFragment stateRules(CodePointDfa dfa, String prefix) {
+    private static RegularFragment stateRules(CodePointDfa dfa, String prefix, Writer writer) {
         int n = dfa.size();
         boolean startReferenced = false;
         for (int p = 1; p < n && !startReferenced; p++) {
@@ -114,14 +151,63 @@ public final class RegularRules {
         for (int q = startReferenced ? 0 : 1; q < n; q++) {
             names[q] = prefix + "-s" + named++;
         }
-        List<Rule> rules = new ArrayList<>();
+        List<Rule> rules = new ArrayList<>(n);
+        Map<CodePointSet, Expr> labels = writer == null ? null : new IdentityHashMap<>();
         for (int q = 0; q < n; q++) {
             if (names[q] != null) {
-                rules.add(Rule.of(names[q], stateEquation(dfa, q, names)));
+                rules.add(Rule.of(names[q], writer == null ? stateEquation(dfa, q, names)
+                        : writtenEquation(dfa, q, names, writer, labels)));
             }
         }
         Expr body = names[0] != null ? Expr.ref(names[0]) : stateEquation(dfa, 0, names);
         return new RegularFragment(body, rules);
+    }
+
+    /**
+     * {@code writer.rule(stateEquation(dfa, q, names))}, built directly: each label written once per
+     * set (the sets of a {@link CodePointDfa} are shared), concatenations flattened as they are made.
+     */
+    private static Expr writtenEquation(CodePointDfa dfa, int q, String[] names, Writer writer,
+            Map<CodePointSet, Expr> labels) {
+        Expr loop = null;
+        Map<Integer, CodePointSet> steps = dfa.out().get(q);
+        Expr[] options = new Expr[steps.size() + (dfa.accept()[q] ? 1 : 0)];
+        int count = 0;
+        List<Expr> items = new ArrayList<>(4);
+        for (Map.Entry<Integer, CodePointSet> e : steps.entrySet()) {
+            Expr label = labels.computeIfAbsent(e.getValue(), set -> writer.leaf(leaf(set).expr()));
+            if (e.getKey() == q) {
+                loop = label;
+            } else {
+                items.clear();
+                addFlat(items, label);
+                items.add(Expr.ref(names[e.getKey()]));
+                options[count++] = new Expr.Seq(items, Span.NONE);
+            }
+        }
+        if (dfa.accept()[q]) {
+            options[count++] = EMPTY_STRING;
+        }
+        Expr rest = count == 1 ? options[0] : new Expr.Choice(List.of(options), Span.NONE);
+        if (loop == null) {
+            return rest;
+        }
+        Expr star = Expr.repeat(loop, 0, Expr.UNBOUNDED);
+        if (isEmptyString(rest)) {
+            return star;
+        }
+        items.clear();
+        items.add(star);
+        addFlat(items, rest);
+        return new Expr.Seq(items, Span.NONE);
+    }
+
+    private static void addFlat(List<Expr> items, Expr e) {
+        if (e instanceof Expr.Seq s) {
+            items.addAll(s.items());
+        } else {
+            items.add(e);
+        }
     }
 
     private static Expr stateEquation(CodePointDfa dfa, int q, String[] names) {
@@ -166,43 +252,66 @@ public final class RegularRules {
                 a = touchesSurrogates(input) ? input.intersection(wellFormedUtf16()) : input.clone();
                 a.minimize();
             }
-            State init = a.getInitialState();
+            return of(UnitDfa.of(a));
+        }
+
+        /**
+         * The code-point automaton of a deterministic automaton over well-formed UTF-16 (as
+         * {@link StringLengths} makes them), read as it is: trimmed and renumbered, not minimised.
+         */
+        static CodePointDfa of(UnitDfa units) {
+            if (units.isEmpty()) {
+                return new CodePointDfa(List.of(), new boolean[0]);
+            }
+            int[][] unitSteps = units.steps();
             // number the states reached by code points (intermediate after-high-surrogate states are skipped)
-            Map<State, Integer> id = new IdentityHashMap<>();
-            List<State> order = new ArrayList<>();
+            int[] id = new int[units.size()];
+            java.util.Arrays.fill(id, -1);
+            int[] order = new int[units.size()];
+            int count = 0;
+            id[units.start()] = count;
+            order[count++] = units.start();
             // per state: its steps as (target, lo, hi) triples, ordered by target
             List<int[]> steps = new ArrayList<>();
-            Deque<State> queue = new ArrayDeque<>();
-            id.put(init, 0);
-            order.add(init);
-            queue.add(init);
             Steps found = new Steps();
-            while (!queue.isEmpty()) {
-                State s = queue.poll();
+            for (int head = 0; head < count; head++) {
                 found.clear();
-                for (Transition t : s.getSortedTransitions(false)) {
-                    int min = t.getMin();
-                    int max = t.getMax();
-                    found.add(target(t.getDest(), id, order, queue), min, Math.min(max, 0xD7FF));
-                    found.add(target(t.getDest(), id, order, queue), Math.max(min, 0xE000), max);
+                int[] st = unitSteps[order[head]];
+                for (int k = 0; k < st.length; k += 3) {
+                    int min = st[k];
+                    int max = st[k + 1];
+                    int dest = st[k + 2];
+                    if (min <= 0xD7FF || max >= 0xE000) {
+                        if (id[dest] < 0) {
+                            id[dest] = count;
+                            order[count++] = dest;
+                        }
+                        found.add(id[dest], min, Math.min(max, 0xD7FF));
+                        found.add(id[dest], Math.max(min, 0xE000), max);
+                    }
                     int h1 = Math.max(min, 0xD800);
                     int h2 = Math.min(max, 0xDBFF);
                     if (h1 > h2) {
                         continue;
                     }
-                    for (Transition u : t.getDest().getTransitions()) {
-                        int l1 = Math.max(u.getMin(), 0xDC00);
-                        int l2 = Math.min(u.getMax(), 0xDFFF);
+                    int[] low = unitSteps[dest];
+                    for (int j = 0; j < low.length; j += 3) {
+                        int l1 = Math.max(low[j], 0xDC00);
+                        int l2 = Math.min(low[j + 1], 0xDFFF);
                         if (l1 > l2) {
                             continue;
                         }
-                        int to = target(u.getDest(), id, order, queue);
+                        int to = low[j + 2];
+                        if (id[to] < 0) {
+                            id[to] = count;
+                            order[count++] = to;
+                        }
                         if (l1 == 0xDC00 && l2 == 0xDFFF) {
-                            found.add(to, Character.toCodePoint((char) h1, (char) l1),
+                            found.add(id[to], Character.toCodePoint((char) h1, (char) l1),
                                     Character.toCodePoint((char) h2, (char) l2));
                         } else {
                             for (int h = h1; h <= h2; h++) {
-                                found.add(to, Character.toCodePoint((char) h, (char) l1),
+                                found.add(id[to], Character.toCodePoint((char) h, (char) l1),
                                         Character.toCodePoint((char) h, (char) l2));
                             }
                         }
@@ -210,10 +319,10 @@ public final class RegularRules {
                 }
                 steps.add(found.byTarget());
             }
-            int n = order.size();
+            int n = count;
             boolean[] accept = new boolean[n];
             for (int i = 0; i < n; i++) {
-                accept[i] = order.get(i).isAccept();
+                accept[i] = units.accept()[order[i]];
             }
             // trim: keep states from which acceptance is reachable
             boolean[] live = accept.clone();
@@ -252,7 +361,9 @@ public final class RegularRules {
                     }
                 }
             }
-            List<Map<Integer, CodePointSet>> out = new ArrayList<>();
+            // the sets of a large automaton repeat: each is made once
+            Map<Ranges, CodePointSet> sets = new HashMap<>();
+            List<Map<Integer, CodePointSet>> out = new ArrayList<>(keptCount);
             boolean[] acc = new boolean[keptCount];
             for (int k = 0; k < keptCount; k++) {
                 int old = kept[k];
@@ -271,13 +382,26 @@ public final class RegularRules {
                             pairs[y++] = st[x + 1];
                             pairs[y++] = st[x + 2];
                         }
-                        m.put(renum[t], CodePointSet.ofRanges(pairs));
+                        m.put(renum[t], sets.computeIfAbsent(new Ranges(pairs), r -> CodePointSet.ofRanges(r.pairs())));
                     }
                     j = e;
                 }
                 out.add(m);
             }
             return new CodePointDfa(out, acc);
+        }
+
+        /** Ranges as found, a key for the set they make. */
+        private record Ranges(int[] pairs) {
+            @Override
+            public boolean equals(Object o) {
+                return o instanceof Ranges r && java.util.Arrays.equals(r.pairs, pairs);
+            }
+
+            @Override
+            public int hashCode() {
+                return java.util.Arrays.hashCode(pairs);
+            }
         }
 
         /** A state's steps while they are found: (target, lo, hi) triples. */
@@ -304,28 +428,17 @@ public final class RegularRules {
             /** The triples ordered by target (stable: a target's ranges keep their order). */
             int[] byTarget() {
                 int n = size / 3;
-                Integer[] idx = new Integer[n];
+                long[] keys = new long[n]; // target, then position: equal targets keep their order
                 for (int i = 0; i < n; i++) {
-                    idx[i] = i;
+                    keys[i] = (long) triples[3 * i] << 32 | i;
                 }
-                java.util.Arrays.sort(idx, (x, y) -> Integer.compare(triples[3 * x], triples[3 * y]));
+                java.util.Arrays.sort(keys);
                 int[] out = new int[size];
                 for (int i = 0; i < n; i++) {
-                    System.arraycopy(triples, 3 * idx[i], out, 3 * i, 3);
+                    System.arraycopy(triples, 3 * (int) keys[i], out, 3 * i, 3);
                 }
                 return out;
             }
-        }
-
-        private static int target(State s, Map<State, Integer> id, List<State> order, Deque<State> queue) {
-            Integer i = id.get(s);
-            if (i == null) {
-                i = order.size();
-                id.put(s, i);
-                order.add(s);
-                queue.add(s);
-            }
-            return i;
         }
 
         private static boolean touchesSurrogates(Automaton a) {
@@ -562,7 +675,11 @@ public final class RegularRules {
     }
 
     private static boolean isEmptyString(Sized a) {
-        return a.expr() instanceof Expr.Seq s && s.items().isEmpty();
+        return isEmptyString(a.expr());
+    }
+
+    private static boolean isEmptyString(Expr e) {
+        return e instanceof Expr.Seq s && s.items().isEmpty();
     }
 
     private static long seqSize(long a, boolean aEmpty, long b, boolean bEmpty) {

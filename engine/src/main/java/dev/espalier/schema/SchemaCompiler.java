@@ -106,10 +106,22 @@ final class SchemaCompiler {
     /** Literals split for reading, by text. */
     private final Map<String, Expr> splits = new HashMap<>();
 
+    /**
+     * Whether large string languages have their state rules written as they are made
+     * ({@link RegularRules#ofMinimal(String, UnitDfa, RegularRules.Writer)}) rather than made and
+     * then encoded in a second walk: the same rules, faster. Off only in the test of that sameness.
+     */
+    private final boolean writeStateRules;
+
     SchemaCompiler(JsonNode root, SchemaOptions options) {
+        this(root, options, true);
+    }
+
+    SchemaCompiler(JsonNode root, SchemaOptions options, boolean writeStateRules) {
         this.index = new SchemaIndex(root);
         this.options = options;
         this.pretty = options.spacing() == SchemaOptions.Spacing.PRETTY;
+        this.writeStateRules = writeStateRules;
     }
 
     // ================================================================== entry
@@ -1371,10 +1383,46 @@ final class SchemaCompiler {
         if (a != null) {
             return a;
         }
-        // the language without its length bounds first (small automata), then the length range as a
-        // product with a counter (StringLengths), which stays fast where the product is large
-        boolean shaped = !f.patterns.isEmpty() || !f.formats.isEmpty() || !f.notStrings.isEmpty();
-        a = shaped ? null : CharAutomata.compile(Expr.repeat(Expr.chars(CodePointSet.ALL), f.minLength,
+        if (shaped(f)) {
+            a = stringUnits(f).toAutomaton();
+        } else {
+            a = unbounded(f, false);
+            if (a.getNumberOfStates() > STATE_LIMIT) {
+                throw new AutomatonTooLargeException(STATE_LIMIT);
+            }
+        }
+        stringAutomata.put(f, a);
+        return a;
+    }
+
+    /** Whether a facet's strings have a pattern, a format or a negated string schema. */
+    private static boolean shaped(Facet f) {
+        return !f.patterns.isEmpty() || !f.formats.isEmpty() || !f.notStrings.isEmpty();
+    }
+
+    /**
+     * The strings of a {@link #shaped} facet as arrays, minimal: the language without its length
+     * bounds first (small automata), then the length range as a product with a counter
+     * ({@link StringLengths}), which stays fast where the product is large.
+     */
+    private UnitDfa stringUnits(Facet f) {
+        UnitDfa u = stringUnitDfas.get(f);
+        if (u == null) {
+            u = StringLengths.units(unbounded(f, true), f.minLength, f.maxLength, STATE_LIMIT); // checks the limit itself
+            stringUnitDfas.put(f, u);
+        }
+        return u;
+    }
+
+    private final IdentityHashMap<Facet, UnitDfa> stringUnitDfas = new IdentityHashMap<>();
+
+    /**
+     * A facet's strings, minimal: with {@code shaped}, without the length bounds (a shared format or
+     * pattern automaton is returned as it is, so callers must not change it); otherwise any
+     * characters within the length bounds.
+     */
+    private Automaton unbounded(Facet f, boolean shaped) {
+        Automaton a = shaped ? null : CharAutomata.compile(Expr.repeat(Expr.chars(CodePointSet.ALL), f.minLength,
                 f.maxLength < 0 ? Expr.UNBOUNDED : f.maxLength), null, STATE_LIMIT);
         boolean shared = shaped; // a pattern's or a format's automaton is shared: operations make new ones
         for (Facet.Pattern p : f.patterns) {
@@ -1398,12 +1446,6 @@ final class SchemaCompiler {
         if (!shared) {
             a.minimize(); // also keeps the length product small
         }
-        if (shaped) {
-            a = StringLengths.bounded(a, f.minLength, f.maxLength, STATE_LIMIT); // checks the limit itself
-        } else if (a.getNumberOfStates() > STATE_LIMIT) {
-            throw new AutomatonTooLargeException(STATE_LIMIT);
-        }
-        stringAutomata.put(f, a);
         return a;
     }
 
@@ -1936,6 +1978,9 @@ final class SchemaCompiler {
     /** As {@link #encodedRules(String, Automaton)}; {@code minimal} when the automaton is known to be minimal. */
     private Expr encodedRules(String base, Automaton a, boolean minimal) {
         String prefix = freshPrefix(base);
+        if (minimal && writeStateRules && a.isDeterministic()) {
+            return writtenRules(RegularRules.ofMinimal(prefix, UnitDfa.of(a), writer));
+        }
         RegularFragment frag = minimal ? RegularRules.ofMinimal(prefix, a) : RegularRules.of(prefix, a);
         for (Rule r : frag.rules()) {
             usedNames.add(r.key());
@@ -1944,6 +1989,34 @@ final class SchemaCompiler {
         }
         return encode(frag.body());
     }
+
+    /** As {@link #encodedRules(String, Automaton, boolean)} for a minimal automaton given as arrays. */
+    private Expr encodedRules(String base, UnitDfa minimal) {
+        return writtenRules(RegularRules.ofMinimal(freshPrefix(base), minimal, writer));
+    }
+
+    /** Adds the (already written) rules of a fragment; returns its body, encoded. */
+    private Expr writtenRules(RegularFragment frag) {
+        for (Rule r : frag.rules()) {
+            usedNames.add(r.key());
+            rules.add(r);
+            readyRules.add(r.name());
+        }
+        return encode(frag.body());
+    }
+
+    /** Writes the rules of a string language as {@link #encodeReadable} would, label by label. */
+    private final RegularRules.Writer writer = new RegularRules.Writer() {
+        @Override
+        public Expr leaf(Expr label) {
+            return encodeReadable(label);
+        }
+
+        @Override
+        public Expr rule(Expr body) {
+            return encodeReadable(body);
+        }
+    };
 
     /** A rule-name prefix that no rule name in use starts with. */
     private String freshPrefix(String base) {
@@ -1978,6 +2051,12 @@ final class SchemaCompiler {
         } else if (f.patterns.size() == 1 && f.formats.isEmpty() && f.notStrings.isEmpty() && f.minLength == 0
                 && f.maxLength < 0 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {
             content = encode(searchExpr(f.patterns.get(0).regex(), f.pointer));
+        } else if (shaped(f) && writeStateRules) {
+            UnitDfa u = stringUnits(f);
+            if (u.isEmpty()) {
+                return null;
+            }
+            content = encodedRules(name + "-text", u); // minimal, as StringLengths makes it
         } else {
             Automaton a = stringAutomaton(f);
             if (a.isEmpty()) {
@@ -2060,8 +2139,9 @@ final class SchemaCompiler {
         return options.isEmpty() ? null : choice(options);
     }
 
+    /** Rules for a number language; {@code a} is minimal (every number automaton here is minimised). */
     private Expr numberRules(String base, Automaton a) {
-        RegularFragment frag = RegularRules.of(freshPrefix(base), a);
+        RegularFragment frag = RegularRules.ofMinimal(freshPrefix(base), a);
         for (Rule r : frag.rules()) {
             usedNames.add(r.key());
             rules.add(r);

@@ -44,6 +44,14 @@ final class StringLengths {
      * @throws AutomatonTooLargeException when the result would have more than {@code stateLimit} states
      */
     static Automaton bounded(Automaton language, int min, int max, int stateLimit) {
+        return units(language, min, max, stateLimit).toAutomaton();
+    }
+
+    /**
+     * As {@link #bounded}, as arrays ({@link UnitDfa}): with an upper bound the product is made
+     * as arrays and stays so; without one, dk.brics minimises it and it is read into arrays.
+     */
+    static UnitDfa units(Automaton language, int min, int max, int stateLimit) {
         Automaton a = language;
         if (!a.isDeterministic()) {
             a = a.clone();
@@ -74,7 +82,7 @@ final class StringLengths {
         if (out.getNumberOfStates() > stateLimit) {
             throw new AutomatonTooLargeException(stateLimit);
         }
-        return out;
+        return out.isEmpty() ? UnitDfa.EMPTY : UnitDfa.of(out);
     }
 
     /** The slow twin: intersection with {@code min..max} code points, minimised by dk.brics. */
@@ -116,7 +124,7 @@ final class StringLengths {
         }
     }
 
-    private static Automaton acyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
+    private static UnitDfa acyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
             int min, int max, int stateLimit) {
         int n = states.size();
         long size = (long) n * ((long) max + 1) * 2;
@@ -146,9 +154,7 @@ final class StringLengths {
         }
         boolean[] reached = reach.reached;
         int[] cls = new int[(int) size];
-        Map<Signature, Integer> classes = new HashMap<>();
-        List<int[]> classSteps = new ArrayList<>();
-        List<Boolean> classAccept = new ArrayList<>();
+        Classes classes = new Classes();
         Row row = new Row(cls, n, max);
         for (int c = max; c >= 0; c--) {
             for (int p = 1; p >= 0; p--) {
@@ -166,40 +172,22 @@ final class StringLengths {
                         cls[id] = DEAD;
                         continue;
                     }
-                    int[] found = Arrays.copyOf(row.buf, row.len);
-                    Signature sig = new Signature(accept, found);
-                    Integer known = classes.get(sig);
-                    if (known == null) {
-                        known = classSteps.size();
-                        if (known >= stateLimit) {
+                    int known = classes.find(accept, row.buf, row.len);
+                    if (known < 0) {
+                        if (classes.count >= stateLimit) {
                             throw new AutomatonTooLargeException(stateLimit);
                         }
-                        classes.put(sig, known);
-                        classSteps.add(found);
-                        classAccept.add(accept);
+                        known = classes.add(accept, Arrays.copyOf(row.buf, row.len));
                     }
                     cls[id] = known;
                 }
             }
         }
         if (cls[0] == DEAD) {
-            return Automaton.makeEmpty();
+            return UnitDfa.EMPTY;
         }
-        State[] made = new State[classSteps.size()];
-        for (int k = 0; k < made.length; k++) {
-            made[k] = new State();
-            made[k].setAccept(classAccept.get(k));
-        }
-        for (int k = 0; k < made.length; k++) {
-            int[] st = classSteps.get(k);
-            for (int i = 0; i < st.length; i += 3) {
-                made[k].addTransition(new Transition((char) st[i], (char) st[i + 1], made[st[i + 2]]));
-            }
-        }
-        Automaton out = new Automaton();
-        out.setInitialState(made[cls[0]]);
-        out.setDeterministic(true);
-        return out;
+        boolean[] accept = Arrays.copyOf(classes.accept, classes.count);
+        return new UnitDfa(cls[0], Arrays.copyOf(classes.steps, classes.count), accept);
     }
 
     private static Automaton cyclic(List<State> states, Map<State, Integer> index, Transition[][] steps,
@@ -310,16 +298,76 @@ final class StringLengths {
         }
     }
 
-    /** Acceptance and steps (lo, hi, target class triples, ascending) of a product state. */
-    private record Signature(boolean accept, int[] steps) {
-        @Override
-        public boolean equals(Object o) {
-            return o instanceof Signature s && s.accept == accept && Arrays.equals(s.steps, steps);
+    /**
+     * The classes of equal product states found so far (acceptance and steps: lo, hi, target class
+     * triples, ascending), in an open-addressing table keyed by their content: a product state's
+     * row is looked up without being copied, and copied only when it is new.
+     */
+    private static final class Classes {
+        int[][] steps = new int[64][];
+        boolean[] accept = new boolean[64];
+        int[] hashes = new int[64];
+        int count;
+        private int[] table = filled(128);
+
+        private static int[] filled(int size) {
+            int[] t = new int[size];
+            Arrays.fill(t, -1);
+            return t;
         }
 
-        @Override
-        public int hashCode() {
-            return Arrays.hashCode(steps) * 2 + (accept ? 1 : 0);
+        private static int hash(boolean accept, int[] buf, int len) {
+            int h = accept ? 0x9E3779B9 : 0x7F4A7C15;
+            for (int i = 0; i < len; i++) {
+                h = Integer.rotateLeft((h ^ buf[i]) * 0x85EBCA6B, 13);
+            }
+            return h ^ (h >>> 16);
+        }
+
+        /** The class of a row, or -1. */
+        int find(boolean acc, int[] buf, int len) {
+            int h = hash(acc, buf, len);
+            int mask = table.length - 1;
+            for (int i = h & mask; ; i = (i + 1) & mask) {
+                int k = table[i];
+                if (k < 0) {
+                    return -1;
+                }
+                if (hashes[k] == h && accept[k] == acc && Arrays.equals(steps[k], 0, steps[k].length, buf, 0, len)) {
+                    return k;
+                }
+            }
+        }
+
+        /** Adds a new class (not found before); returns its number. */
+        int add(boolean acc, int[] row) {
+            if (count == steps.length) {
+                steps = Arrays.copyOf(steps, 2 * count);
+                accept = Arrays.copyOf(accept, 2 * count);
+                hashes = Arrays.copyOf(hashes, 2 * count);
+            }
+            int k = count++;
+            steps[k] = row;
+            accept[k] = acc;
+            hashes[k] = hash(acc, row, row.length);
+            if (2 * count > table.length) {
+                table = filled(2 * table.length);
+                for (int j = 0; j < count; j++) {
+                    place(j);
+                }
+            } else {
+                place(k);
+            }
+            return k;
+        }
+
+        private void place(int k) {
+            int mask = table.length - 1;
+            int i = hashes[k] & mask;
+            while (table[i] >= 0) {
+                i = (i + 1) & mask;
+            }
+            table[i] = k;
         }
     }
 }
