@@ -3,7 +3,7 @@ package dev.espalier.vocab;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
-import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertNotSame;
 import static org.junit.jupiter.api.Assertions.assertSame;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -174,16 +174,29 @@ class RunTokensTest {
     }
 
     @Test
-    void aTrieKeepsABoundedNumberOfSets() {
+    void aTrieKeepsTheSetsMadeLast() {
         VocabularyTrie trie = freshTrie(TestVocabularies.builtin("cl100k"));
-        int kept = 0;
+        RunTokens first = trie.runTokens(1L, 0, false, 2);
+        RunTokens[] made = new RunTokens[64];
         for (int b = 0; b < 64; b++) {
-            if (trie.runTokens(1L << b, 0, false, 2) != null) {
-                kept++;
-            }
+            made[b] = trie.runTokens(1L << b, 0, false, 2);
+            assertNotNull(made[b], "set " + b);
+            assertTrue(trie.runSetsKept() <= VocabularyTrie.RUN_SETS, "sets kept: " + trie.runSetsKept());
         }
-        assertTrue(kept <= VocabularyTrie.RUN_SETS, "sets kept: " + kept);
-        assertNull(trie.runTokens(0, 1L, false, 2), "a new set past the bound");
+        assertEquals(VocabularyTrie.RUN_SETS, trie.runSetsKept());
+        // the set made last is kept; the one made first was dropped and is made again, equal
+        assertSame(made[63], trie.runTokens(1L << 63, 0, false, 2));
+        RunTokens again = trie.runTokens(1L, 0, false, 2);
+        assertNotSame(first, again);
+        int words = TestVocabularies.builtin("cl100k").maskWords();
+        for (int c = 0; c <= 2; c++) {
+            long[] a = new long[words];
+            long[] b = new long[words];
+            first.addUpTo(c, a);
+            again.addUpTo(c, b);
+            assertArrayEquals(a, b, "tokens of up to " + c + " characters");
+        }
+        assertTrue(first.countUpTo(2) > 0, "the set has tokens");
     }
 
     @Test
