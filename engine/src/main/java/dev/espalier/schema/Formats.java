@@ -43,16 +43,22 @@ import java.util.concurrent.ConcurrentHashMap;
  *       UTC are refused (pairing each local minute with its offset takes a minimal automaton of
  *       about 11,000 states, against 33 for the whole time format), and whether a leap second was
  *       actually inserted that day is not known.</li>
- *   <li>email: quoted local parts and general address literals are refused; the length limits of
- *       RFC 5321 section 4.5.3.1 are not enforced.</li>
+ *   <li>email: general address literals (other than the IPv4 and IPv6 forms) are refused; the
+ *       length limits of RFC 5321 section 4.5.3.1 are not enforced. Local parts are dot-strings or
+ *       quoted strings, both as RFC 5321 section 4.1.2 defines them. Domain labels are refused as
+ *       host-name labels are when they are R-LDH labels (see hostname).</li>
  *   <li>hostname: the total length limit of 253 characters is not enforced (as an automaton it
- *       needs about 30,000 states); A-labels ({@code xn--}) are not decoded, so Punycode and IDNA
- *       validity are not checked.</li>
+ *       needs about 30,000 states), so a longer name is accepted. Labels whose third and fourth
+ *       characters are both {@code -} (R-LDH labels, reserved by RFC 5890 section 2.3.1) are
+ *       refused, A-labels ({@code xn--}) among them: a grammar cannot decode their Punycode, so a
+ *       valid internationalised name in A-label form is refused rather than an invalid one
+ *       accepted.</li>
  * </ul>
  * Stricter than the letter of the ABNF: duration designators ({@code P}, {@code Y}, {@code T}, ...) are
  * upper case only, as ISO 8601 writes them (RFC 5234 would read the quoted strings of RFC 3339
  * Appendix A case-insensitively); e-mail address literals take IPv4 octets without leading zeros,
- * and the IPv6 tag only as {@code IPv6:}, as RFC 5321 section 4.1.3 writes it.
+ * and the IPv6 tag only as {@code IPv6:}, as RFC 5321 section 4.1.3 writes it; host names and
+ * e-mail domains have no R-LDH labels.
  */
 public final class Formats {
 
@@ -62,8 +68,12 @@ public final class Formats {
     private static final Map<String, String> GAPS = Map.of(
             "date-time", "leap seconds only as 23:59:60 with a zero offset, on any date (no table of the leap seconds announced)",
             "time", "leap seconds only as 23:59:60 with a zero offset",
-            "email", "no quoted local parts or general address literals; length limits not enforced",
-            "hostname", "total length (253) not enforced; A-labels not decoded (Punycode/IDNA validity unchecked)");
+            "email", "no general address literals (only IPv4 and IPv6 ones); length limits not enforced; the Punycode"
+                    + " of A-labels (xn--) in the domain, so domain labels with \"--\" as third and fourth characters"
+                    + " are refused, valid A-labels included",
+            "hostname", "the total length (at most 253 characters), so longer names are accepted; the Punycode of"
+                    + " A-labels (xn--), so labels with \"--\" as third and fourth characters are refused, valid"
+                    + " A-labels included");
 
     /** State limit when compiling a format to an automaton (the largest, uri-reference, needs far fewer). */
     private static final int AUTOMATON_LIMIT = 100_000;
@@ -78,8 +88,9 @@ public final class Formats {
     }
 
     /**
-     * The content of a string of the given format: decoded characters, before JSON escaping (none
-     * are needed: see the class documentation).
+     * The content of a string of the given format: decoded characters, before JSON escaping (the
+     * caller escapes what JSON requires, such as the double quote and backslash of a quoted e-mail
+     * local part; see the class documentation).
      *
      * @param prefix prefix of every helper rule name
      * @return empty when the format is not one of {@link #names()}
