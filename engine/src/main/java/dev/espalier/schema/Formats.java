@@ -47,8 +47,10 @@ import java.util.concurrent.ConcurrentHashMap;
  *       length limits of RFC 5321 section 4.5.3.1 are not enforced. Local parts are dot-strings or
  *       quoted strings, both as RFC 5321 section 4.1.2 defines them. Domain labels are refused as
  *       host-name labels are when they are R-LDH labels (see hostname).</li>
- *   <li>hostname: the total length limit of 253 characters is not enforced (as an automaton it
- *       needs about 30,000 states), so a longer name is accepted. Labels whose third and fourth
+ *   <li>hostname: the total length limit of 253 characters is not counted by the grammar (as an
+ *       automaton it needs about 24,000 states): the schema compiler enforces it through a
+ *       {@code maxLength} of at most 253 and otherwise refuses the format ({@link #uncountedLength}).
+ *       Labels whose third and fourth
  *       characters are both {@code -} (R-LDH labels, reserved by RFC 5890 section 2.3.1) are
  *       refused, A-labels ({@code xn--}) among them: a grammar cannot decode their Punycode, so a
  *       valid internationalised name in A-label form is refused rather than an invalid one
@@ -71,9 +73,17 @@ public final class Formats {
             "email", "no general address literals (only IPv4 and IPv6 ones); length limits not enforced; the Punycode"
                     + " of A-labels (xn--) in the domain, so domain labels with \"--\" as third and fourth characters"
                     + " are refused, valid A-labels included",
-            "hostname", "the total length (at most 253 characters), so longer names are accepted; the Punycode of"
-                    + " A-labels (xn--), so labels with \"--\" as third and fourth characters are refused, valid"
-                    + " A-labels included");
+            "hostname", "the Punycode of A-labels (xn--), so labels with \"--\" as third and fourth characters are"
+                    + " refused, valid A-labels included");
+
+    /**
+     * The most characters a host name may have in all (RFC 1123 section 2.1, after RFC 1034 section
+     * 3.1: 255 octets on the wire, 253 characters written out; from memory). The format's grammar does
+     * not count them: an automaton counting up to 253 characters of host name has about 24,000
+     * states, so the schema compiler enforces the limit only through a {@code maxLength} of at most
+     * this many characters.
+     */
+    public static final int HOSTNAME_MAX_LENGTH = 253;
 
     /** State limit when compiling a format to an automaton (the largest, uri-reference, needs far fewer). */
     private static final int AUTOMATON_LIMIT = 100_000;
@@ -142,8 +152,17 @@ public final class Formats {
     }
 
     /**
+     * The most characters a string of the format may have in all when its grammar does not count
+     * them (hostname: {@value #HOSTNAME_MAX_LENGTH}), or empty: such a format is exact only together
+     * with a {@code maxLength} of at most that many characters.
+     */
+    public static java.util.OptionalInt uncountedLength(String format) {
+        return format.equals("hostname") ? java.util.OptionalInt.of(HOSTNAME_MAX_LENGTH) : java.util.OptionalInt.empty();
+    }
+
+    /**
      * What the grammar of a format does not check, in a phrase, or empty when it checks everything
-     * the format's standard defines syntactically.
+     * the format's standard defines syntactically (apart from an {@link #uncountedLength}).
      */
     public static Optional<String> gaps(String format) {
         return Optional.ofNullable(GAPS.get(format));

@@ -2032,6 +2032,16 @@ final class SchemaCompiler {
     }
 
     private Expr stringExpr(Facet f, String name) {
+        for (String fm : f.formats) {
+            java.util.OptionalInt most = Formats.uncountedLength(fm);
+            if (most.isPresent() && (f.maxLength < 0 || f.maxLength > most.getAsInt())) {
+                // counting the whole length in the automaton would make it huge; a maxLength bounds it exactly
+                refuse(f.pointer, "format", "format " + fm + " allows at most " + most.getAsInt()
+                        + " characters in all, which its grammar does not count: give maxLength (at most "
+                        + most.getAsInt() + ") to enforce it" + (options.lenient() ? "; longer strings are accepted"
+                        : ", or compile leniently to leave it unchecked"));
+            }
+        }
         Expr content;
         if (f.patterns.isEmpty() && f.formats.isEmpty() && f.notStrings.isEmpty()
                 && f.excluded.stream().noneMatch(JsonNode::isTextual)) {

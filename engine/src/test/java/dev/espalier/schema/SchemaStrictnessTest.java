@@ -31,6 +31,8 @@ class SchemaStrictnessTest {
         "not              | /$defs/x                         | {'$defs':{'x':{'not':{'type':'object','additionalProperties':false}}},'$ref':'#/$defs/x'}",
         "pattern          | /properties/code                 | {'properties':{'code':{'pattern':'(a)\\\\1'}}}",
         "unevaluatedProperties | ''                          | {'anyOf':[{'properties':{'a':{}}},{'properties':{'b':{}}}],'unevaluatedProperties':false}",
+        "format           | /properties/host                 | {'properties':{'host':{'type':'string','format':'hostname'}}}",
+        "format           | /properties/host                 | {'properties':{'host':{'type':'string','format':'hostname','maxLength':254}}}",
     })
     void refusedWithPointer(String keyword, String pointer, String schema) {
         String json = schema.replace('\'', '"');
@@ -42,6 +44,30 @@ class SchemaStrictnessTest {
         SchemaResult lenient = JsonSchemas.compile(json, LENIENT);
         assertTrue(lenient.relaxations().stream().anyMatch(n -> n.keyword().equals(keyword) && n.pointer().equals(pointer)),
                 "relaxation listed: " + lenient.relaxations());
+    }
+
+    /**
+     * A host name has at most 253 characters (RFC 1123 section 2.1; from memory), which the format's
+     * grammar does not count: with a {@code maxLength} of at most 253 the whole name is counted
+     * exactly; leniently, without one, longer names pass and the relaxation says so.
+     */
+    @Test
+    void hostNamesAreCountedThroughMaxLength() {
+        String longest = "a".repeat(63) + "." + "b".repeat(63) + "." + "c".repeat(63) + "." + "d".repeat(61);
+        assertEquals(253, longest.length());
+        SchemaResult exact = JsonSchemas.compile("{\"type\":\"string\",\"format\":\"hostname\",\"maxLength\":253}",
+                SchemaOptions.defaults());
+        assertTrue(exact.relaxations().isEmpty());
+        assertTrue(SchemaHarness.acceptsInstance(exact, "\"" + longest + "\""), "253 characters");
+        assertFalse(SchemaHarness.acceptsInstance(exact, "\"" + longest + "d\""), "254 characters");
+        assertFalse(SchemaHarness.acceptsInstance(exact, "\"orchard..example\""), "still a host name");
+
+        SchemaResult relaxed = JsonSchemas.compile("{\"type\":\"string\",\"format\":\"hostname\"}", LENIENT);
+        assertEquals(1, relaxed.relaxations().size());
+        assertTrue(relaxed.relaxations().get(0).message().contains("longer strings are accepted"),
+                relaxed.relaxations().get(0).message());
+        assertTrue(SchemaHarness.acceptsInstance(relaxed, "\"" + longest + ".e\""), "255 characters, relaxed");
+        assertFalse(SchemaHarness.acceptsInstance(relaxed, "\"-orchard.example\""), "labels still checked");
     }
 
     @Test
