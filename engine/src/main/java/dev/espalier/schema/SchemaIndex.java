@@ -57,6 +57,11 @@ final class SchemaIndex {
     private final Map<String, JsonNode> loaded = new HashMap<>();
     private final Map<String, URI> loadedBases = new HashMap<>();
     private boolean setIndexed;
+    /** other documents that declare (somewhere) a {@code $schema} other than draft 2020-12's, by key */
+    private final Map<String, String> foreign = new HashMap<>();
+    /** The draft 2020-12 meta-schema URI, the one dialect followed in other documents. */
+    private static final java.util.regex.Pattern DIALECT =
+            java.util.regex.Pattern.compile("https?://json-schema\\.org/draft/2020-12/schema#?");
 
     /** One document alone, as before: base {@link #DEFAULT_BASE}, no other documents. */
     SchemaIndex(JsonNode root) {
@@ -81,6 +86,9 @@ final class SchemaIndex {
 
     /** Indexes one document whose locations start with {@code prefix} ({@code ""} for the root). */
     private void walk(String prefix, JsonNode doc, URI docBase) {
+        // in another document, a URI already known keeps its resource (the URI a document is given
+        // under wins over another document's $id)
+        boolean first = prefix.isEmpty();
         Deque<Object[]> work = new ArrayDeque<>();
         work.push(new Object[] {prefix, doc, docBase});
         while (!work.isEmpty()) {
@@ -96,15 +104,19 @@ final class SchemaIndex {
                 if (id != null && id.isTextual()) {
                     String s = id.textValue();
                     if (s.startsWith("#")) {
-                        resources.put(strip(base) + s, ptr); // draft-07 anchor form
+                        register(strip(base) + s, ptr, first); // draft-07 anchor form
                     } else {
                         base = resolve(base, s, ptr, "$id");
-                        resources.put(strip(base), ptr);
+                        register(strip(base), ptr, first);
                     }
+                }
+                JsonNode dialect = n.get("$schema");
+                if (!first && dialect != null && !(dialect.isTextual() && DIALECT.matcher(dialect.textValue()).matches())) {
+                    foreign.putIfAbsent(prefix.substring(0, prefix.length() - 1), dialect.toString());
                 }
                 JsonNode anchor = n.get("$anchor");
                 if (anchor != null && anchor.isTextual()) {
-                    resources.put(strip(base) + "#" + anchor.textValue(), ptr);
+                    register(strip(base) + "#" + anchor.textValue(), ptr, first);
                 }
                 JsonNode dyn = n.get("$dynamicAnchor");
                 if (dyn != null && dyn.isTextual()) {
@@ -138,6 +150,14 @@ final class SchemaIndex {
                     }
                 }
             }
+        }
+    }
+
+    private void register(String uri, String location, boolean replace) {
+        if (replace) {
+            resources.put(uri, location);
+        } else {
+            resources.putIfAbsent(uri, location);
         }
     }
 
@@ -181,6 +201,16 @@ final class SchemaIndex {
      *                         with "remote reference"), a file that cannot be read or parsed, or nothing
      */
     String resolve(String from, String ref) {
+        String location = locate(from, ref);
+        String doc = document(location);
+        if (doc != null && foreign.containsKey(doc)) {
+            throw new SchemaException(from, "$ref", "reference " + ref + " reaches document " + doc + ", whose $schema "
+                    + foreign.get(doc) + " is another dialect than draft 2020-12: not supported");
+        }
+        return location;
+    }
+
+    private String locate(String from, String ref) {
         URI target = resolve(base(from), ref, from, "$ref");
         String frag = target.getRawFragment();
         String doc = strip(target);
@@ -218,6 +248,11 @@ final class SchemaIndex {
         if (!setIndexed) {
             // a document (or an embedded resource) known by its $id only
             setIndexed = true;
+            for (String key : documents.entries().keySet()) {
+                if (!loaded.containsKey(key)) {
+                    resources.putIfAbsent(key, key + "#");
+                }
+            }
             for (Map.Entry<String, SchemaDocuments.Entry> e : documents.entries().entrySet()) {
                 if (!loaded.containsKey(e.getKey())) {
                     index(e.getKey(), e.getValue().document(), e.getValue().uri());

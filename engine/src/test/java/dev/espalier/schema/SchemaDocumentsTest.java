@@ -413,6 +413,26 @@ class SchemaDocumentsTest {
         assertTrue(e.detail().contains("several documents"), e.getMessage());
     }
 
+    /** Another document of another dialect would be read with draft 2020-12's rules: refused instead. */
+    @Test
+    void aDocumentOfAnotherDialectIsRefused() {
+        SchemaDocuments set = SchemaDocuments.empty().with(URI.create("https://orchard.test/old/rows.json"), json("""
+                {"$schema": "http://json-schema.org/draft-07/schema#", "items": [{"type": "string"}]}
+                """)).with(URI.create("https://orchard.test/new/rows.json"), json("""
+                {"$schema": "https://json-schema.org/draft/2020-12/schema", "prefixItems": [{"type": "string"}]}
+                """));
+        JsonNode old = json("{\"$ref\": \"https://orchard.test/old/rows.json\"}");
+        SchemaException e = assertThrows(SchemaException.class,
+                () -> JsonSchemas.compile(old, INSPECTION, set, SchemaOptions.defaults()));
+        assertEquals("# $ref: reference https://orchard.test/old/rows.json reaches document "
+                + "https://orchard.test/old/rows.json, whose $schema \"http://json-schema.org/draft-07/schema#\" is another "
+                + "dialect than draft 2020-12: not supported", e.getMessage());
+        SchemaResult r = JsonSchemas.compile(json("{\"$ref\": \"/new/rows.json\"}"), INSPECTION, set,
+                SchemaOptions.defaults());
+        assertTrue(SchemaHarness.acceptsInstance(r, "[\"row\", 1]"));
+        assertFalse(SchemaHarness.acceptsInstance(r, "[1]"));
+    }
+
     @Test
     void theSetIsAnImmutableValue() {
         SchemaDocuments empty = SchemaDocuments.empty();
