@@ -267,7 +267,8 @@ final class SchemaIndex {
             index(doc, readFile(from, ref, URI.create(doc)), URI.create(doc));
             return resources.get(doc) != null ? resources.get(doc) : doc + "#";
         }
-        throw new SchemaException(from, "$ref", "remote reference " + ref + " to " + doc
+        String named = ref.equals(doc) || ref.startsWith(doc + "#") ? ref : ref + " (document " + doc + ")";
+        throw new SchemaException(from, "$ref", "remote reference " + named
                 + " is not supplied: documents are never fetched; give it in the SchemaDocuments set"
                 + ("file".equalsIgnoreCase(target.getScheme()) ? " or compile the schema from its file" : "")
                 + " (command line: --schema-document " + doc + "=FILE)");

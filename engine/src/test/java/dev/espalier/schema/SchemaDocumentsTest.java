@@ -275,10 +275,16 @@ class SchemaDocumentsTest {
                 () -> JsonSchemas.compile(schema, INSPECTION, SchemaDocuments.empty(), SchemaOptions.defaults()));
         assertEquals("/properties/tree", e.pointer());
         assertEquals("$ref", e.keyword());
-        assertEquals("#/properties/tree $ref: remote reference https://orchard.test/schemas/tree.json to "
-                + "https://orchard.test/schemas/tree.json is not supplied: documents are never fetched; give it in "
+        assertEquals("#/properties/tree $ref: remote reference https://orchard.test/schemas/tree.json"
+                + " is not supplied: documents are never fetched; give it in "
                 + "the SchemaDocuments set (command line: --schema-document https://orchard.test/schemas/tree.json=FILE)",
                 e.getMessage());
+        // relative: the document is named
+        JsonNode relative = json("{\"$ref\": \"tree.json#/$defs/treeId\"}");
+        e = assertThrows(SchemaException.class,
+                () -> JsonSchemas.compile(relative, INSPECTION, SchemaDocuments.empty(), SchemaOptions.defaults()));
+        assertTrue(e.detail().startsWith("remote reference tree.json#/$defs/treeId (document "
+                + "https://orchard.test/schemas/tree.json) is not supplied"), e.getMessage());
         SchemaResult lenient = JsonSchemas.compile(schema, INSPECTION, SchemaDocuments.empty(),
                 SchemaOptions.defaults().withLenient(true));
         assertEquals(1, lenient.relaxations().size());
