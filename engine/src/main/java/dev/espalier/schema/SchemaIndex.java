@@ -362,10 +362,106 @@ final class SchemaIndex {
                 throw new SchemaException(ptr, keyword, "relative reference " + ref
                         + " against a base without a path; give the schema an absolute $id");
             }
-            return base.resolve(r);
+            return new URI(resolveReference(base.toString(), ref));
         } catch (URISyntaxException e) {
             throw new SchemaException(ptr, keyword, "malformed URI reference " + ref);
         }
+    }
+
+    /** RFC 3986 appendix B: scheme (2), authority (4), path (5), query (7), fragment (9). */
+    private static final java.util.regex.Pattern URI_PARTS =
+            java.util.regex.Pattern.compile("^(([^:/?#]+):)?(//([^/?#]*))?([^?#]*)(\\?([^#]*))?(#(.*))?", java.util.regex.Pattern.DOTALL);
+
+    /**
+     * Reference resolution as RFC 3986 section 5.2.2 gives it (strict: a reference with a scheme is
+     * absolute), with dot segments removed as in section 5.2.4 and the result recomposed as in 5.3;
+     * {@code java.net.URI.resolve} departs from it for empty references, query-only references and
+     * {@code ..} above the root.
+     */
+    static String resolveReference(String base, String ref) {
+        java.util.regex.Matcher b = URI_PARTS.matcher(base);
+        java.util.regex.Matcher r = URI_PARTS.matcher(ref);
+        if (!b.matches() || !r.matches()) {
+            throw new IllegalArgumentException(base + " / " + ref);
+        }
+        String scheme;
+        String authority;
+        String path;
+        String query;
+        if (r.group(1) != null) {
+            scheme = r.group(2);
+            authority = r.group(3) != null ? r.group(4) : null;
+            path = removeDotSegments(r.group(5));
+            query = r.group(6) != null ? r.group(7) : null;
+        } else {
+            if (r.group(3) != null) {
+                authority = r.group(4);
+                path = removeDotSegments(r.group(5));
+                query = r.group(6) != null ? r.group(7) : null;
+            } else {
+                if (r.group(5).isEmpty()) {
+                    path = b.group(5);
+                    query = r.group(6) != null ? r.group(7) : b.group(6) != null ? b.group(7) : null;
+                } else {
+                    if (r.group(5).startsWith("/")) {
+                        path = removeDotSegments(r.group(5));
+                    } else {
+                        String bp = b.group(5);
+                        String merged = b.group(3) != null && bp.isEmpty() ? "/" + r.group(5)
+                                : bp.substring(0, bp.lastIndexOf('/') + 1) + r.group(5);
+                        path = removeDotSegments(merged);
+                    }
+                    query = r.group(6) != null ? r.group(7) : null;
+                }
+                authority = b.group(3) != null ? b.group(4) : null;
+            }
+            scheme = b.group(2);
+        }
+        String fragment = r.group(8) != null ? r.group(9) : null;
+        StringBuilder out = new StringBuilder();
+        if (scheme != null) {
+            out.append(scheme).append(':');
+        }
+        if (authority != null) {
+            out.append("//").append(authority);
+        }
+        out.append(path);
+        if (query != null) {
+            out.append('?').append(query);
+        }
+        if (fragment != null) {
+            out.append('#').append(fragment);
+        }
+        return out.toString();
+    }
+
+    /** RFC 3986 section 5.2.4. */
+    static String removeDotSegments(String path) {
+        String in = path;
+        StringBuilder out = new StringBuilder();
+        while (!in.isEmpty()) {
+            if (in.startsWith("../")) {
+                in = in.substring(3);
+            } else if (in.startsWith("./")) {
+                in = in.substring(2);
+            } else if (in.startsWith("/./")) {
+                in = in.substring(2);
+            } else if (in.equals("/.")) {
+                in = "/";
+            } else if (in.startsWith("/../") || in.equals("/..")) {
+                in = in.equals("/..") ? "/" : in.substring(3);
+                int last = out.lastIndexOf("/");
+                out.setLength(Math.max(last, 0));
+            } else if (in.equals(".") || in.equals("..")) {
+                in = "";
+            } else {
+                int next = in.indexOf('/', in.startsWith("/") ? 1 : 0);
+                String segment = next < 0 ? in : in.substring(0, next);
+                out.append(segment);
+                in = in.substring(segment.length());
+            }
+        }
+        return out.toString();
     }
 
     /** The URI without fragment, in one spelling ({@code file:///a} and {@code file:/a} agree). */
