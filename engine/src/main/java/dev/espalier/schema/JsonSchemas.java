@@ -8,6 +8,7 @@ import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.json.JsonMapper;
 import java.io.IOException;
+import java.net.URI;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -59,7 +60,8 @@ import java.util.Objects;
  * not check is a warning; other formats are annotations), {@code minimum}/{@code maximum}/{@code exclusiveMinimum}/{@code exclusiveMaximum},
  * {@code multipleOf} (integers, and decimal steps whose digits are at most
  * {@link NumberLanguages#MAX_MODULUS}), {@code allOf}, {@code anyOf}, {@code oneOf}, {@code not},
- * {@code if}/{@code then}/{@code else}, {@code $ref} to {@code $defs}/{@code definitions}, JSON
+ * {@code if}/{@code then}/{@code else}, {@code $ref} to {@code $defs}/{@code definitions} and to other documents (files beside a schema
+ * file, and the documents of a {@link SchemaDocuments} set), JSON
  * pointers (with {@code ~0}, {@code ~1} and percent escapes), {@code $id}-identified subschemas and
  * {@code $anchor}s, recursive schemas, {@code $dynamicRef} where only one {@code $dynamicAnchor} can
  * match, boolean schemas, and {@code unevaluatedProperties}/{@code unevaluatedItems} over merged
@@ -78,8 +80,9 @@ import java.util.Objects;
  * JSON pointer of its schema, unless the options are lenient: then it is relaxed (enforced more
  * weakly, or not at all) and listed in {@link SchemaResult#relaxations()}. Refused: {@code uniqueItems}
  * over items with more than eight possible values, {@code contains} next to {@code prefixItems} or
- * with a contained schema without exact complement, remote {@code $ref}, dynamic references with
- * several candidate anchors, {@code multipleOf} with more digits than the limit, {@code oneOf} whose
+ * with a contained schema without exact complement, {@code $ref} to a document that is not supplied
+ * (see {@link SchemaDocuments}), dynamic references with
+ * several candidate anchors (or in a schema of several documents), {@code multipleOf} with more digits than the limit, {@code oneOf} whose
  * overlapping branches lack complements, {@code not} and {@code if} without exact complement,
  * {@code unevaluated*} next to {@code not}, {@code if}, {@code contains} or overlapping branches,
  * {@code minProperties} that could only be reached with two or more pattern or additional members
@@ -99,18 +102,33 @@ public final class JsonSchemas {
     }
 
     /**
-     * Compiles a parsed schema.
+     * Compiles a parsed schema on its own: its base URI is {@code urn:espalier:schema} (unless it
+     * has a {@code $id}) and only references inside it resolve.
      *
      * @throws SchemaException when the schema is malformed or (not lenient) asks for something that
      *                         cannot be enforced exactly
      */
     public static SchemaResult compile(JsonNode schema, SchemaOptions options) {
-        Objects.requireNonNull(schema, "schema");
-        Objects.requireNonNull(options, "options");
-        if (!schema.isObject() && !schema.isBoolean()) {
-            throw new SchemaException("", "", "a schema must be an object or a boolean");
+        return compile(schema, SchemaIndex.DEFAULT_BASE, SchemaDocuments.empty(), false, options);
+    }
+
+    /**
+     * Compiles a parsed schema whose references may reach other documents: the root's base URI is
+     * {@code base} (its own {@code $id} resolved against it, when it has one), and a reference to
+     * another document resolves to a document of {@code documents} (by the URI it is given under,
+     * or by a {@code $id} inside it). Nothing is fetched or read: a reference to any other document
+     * is a {@link SchemaException}.
+     *
+     * @param base an absolute URI, the schema's retrieval URI
+     * @throws SchemaException when the schema is malformed, a reference cannot be resolved, or (not
+     *                         lenient) the schema asks for something that cannot be enforced exactly
+     */
+    public static SchemaResult compile(JsonNode schema, URI base, SchemaDocuments documents, SchemaOptions options) {
+        Objects.requireNonNull(base, "base");
+        if (!base.isAbsolute()) {
+            throw new IllegalArgumentException("the base URI must be absolute: " + base);
         }
-        return new SchemaCompiler(schema, options).compile();
+        return compile(schema, base, documents, false, options);
     }
 
     /** Parses (strict JSON) and compiles a schema text; malformed JSON is a {@link SchemaException} at {@code ""}. */
@@ -118,9 +136,42 @@ public final class JsonSchemas {
         return compile(parse(schemaJson), options);
     }
 
-    /** Reads, parses and compiles a schema file. */
+    /**
+     * Reads, parses and compiles a schema file. Its base URI is the file's {@code file:} URI (unless
+     * it has a {@code $id}), so relative references reach the files beside it; see
+     * {@link #compile(Path, SchemaDocuments, SchemaOptions)}.
+     */
     public static SchemaResult compile(Path file, SchemaOptions options) throws IOException {
-        return compile(Files.readString(file, StandardCharsets.UTF_8), options);
+        return compile(file, SchemaDocuments.empty(), options);
+    }
+
+    /**
+     * Reads, parses and compiles a schema file whose references may reach other documents. The
+     * root's base URI is the file's absolute {@code file:} URI (its own {@code $id} resolved against
+     * it, when it has one). A reference to another document resolves to a document of
+     * {@code documents} (by the URI it is given under, or a {@code $id} inside it), else, for a
+     * {@code file:} URI, to that file, read from disk on first use and parsed as {@link #parse}
+     * does; {@code http}, {@code https}, {@code urn} and other URIs are never fetched. A referenced
+     * file that is missing, unreadable or malformed is a {@link SchemaException} at the reference.
+     *
+     * @throws IOException when the schema file itself cannot be read
+     */
+    public static SchemaResult compile(Path file, SchemaDocuments documents, SchemaOptions options)
+            throws IOException {
+        Path abs = file.toAbsolutePath().normalize();
+        JsonNode schema = parse(Files.readString(abs, StandardCharsets.UTF_8));
+        return compile(schema, abs.toUri(), documents, true, options);
+    }
+
+    private static SchemaResult compile(JsonNode schema, URI base, SchemaDocuments documents, boolean readFiles,
+                                        SchemaOptions options) {
+        Objects.requireNonNull(schema, "schema");
+        Objects.requireNonNull(documents, "documents");
+        Objects.requireNonNull(options, "options");
+        if (!schema.isObject() && !schema.isBoolean()) {
+            throw new SchemaException("", "", "a schema must be an object or a boolean");
+        }
+        return new SchemaCompiler(new SchemaIndex(schema, base, documents, readFiles), options, true).compile();
     }
 
     /**

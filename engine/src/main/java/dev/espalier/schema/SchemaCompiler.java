@@ -86,6 +86,8 @@ final class SchemaCompiler {
     private static final CodePointSet DIGITS19 = CodePointSet.range('1', '9');
 
     private final SchemaIndex index;
+    /** A {@code $dynamicRef} read as a plain reference (one document, one candidate anchor), or null. */
+    private String staticDynamicRef;
     private final SchemaOptions options;
     private final boolean pretty;
     private final Set<SchemaNote> relaxations = new LinkedHashSet<>();
@@ -118,7 +120,11 @@ final class SchemaCompiler {
     }
 
     SchemaCompiler(JsonNode root, SchemaOptions options, boolean writeStateRules) {
-        this.index = new SchemaIndex(root);
+        this(new SchemaIndex(root), options, writeStateRules);
+    }
+
+    SchemaCompiler(SchemaIndex index, SchemaOptions options, boolean writeStateRules) {
+        this.index = index;
         this.options = options;
         this.pretty = options.spacing() == SchemaOptions.Spacing.PRETTY;
         this.writeStateRules = writeStateRules;
@@ -137,6 +143,11 @@ final class SchemaCompiler {
         while (!pending.isEmpty()) {
             Object[] job = pending.poll();
             generate((Facet.Sub) job[0], (Integer) job[1], (String) job[2]);
+        }
+        if (staticDynamicRef != null && index.documentCount() > 1) {
+            // read as a plain reference while one document was known; another came later
+            throw new SchemaException(staticDynamicRef, "$dynamicRef",
+                    "a dynamic reference in a schema of several documents is not supported");
         }
         Rule top = rules.stream().filter(r -> r.name().equals("root")).findFirst().orElseThrow();
         if (top.body() instanceof Expr.Choice c && c.options().isEmpty()) {
@@ -352,12 +363,17 @@ final class SchemaCompiler {
                     refuse(ptr, k, "a dynamic reference with several candidate $dynamicAnchor targets is not supported");
                     continue;
                 }
+                if (index.documentCount() > 1) {
+                    refuse(ptr, k, "a dynamic reference in a schema of several documents is not supported");
+                    continue;
+                }
+                staticDynamicRef = ptr;
             }
             String target;
             try {
                 target = index.resolve(ptr, ref.textValue());
             } catch (SchemaException e) {
-                if (!options.lenient() || !e.getMessage().contains("remote")) {
+                if (!options.lenient() || !e.detail().startsWith("remote reference")) {
                     throw e;
                 }
                 relaxations.add(new SchemaNote(ptr, k, "remote reference " + ref.textValue() + " not enforced"));
@@ -955,7 +971,7 @@ final class SchemaCompiler {
             if (a.contains != null && !(a.contains.equals(b.contains) && a.minContains == b.minContains
                     && a.maxContains == b.maxContains)) {
                 throw new SchemaException(b.pointer, "contains", "cannot be merged with the contains of "
-                        + (a.pointer.isEmpty() ? "#" : "#" + a.pointer));
+                        + SchemaIndex.display(a.pointer));
             }
             m.contains = b.contains;
             m.minContains = b.minContains;
@@ -965,7 +981,7 @@ final class SchemaCompiler {
         if (!a.patternProperties.isEmpty() && !b.patternProperties.isEmpty()
                 && !a.patternProperties.keySet().equals(b.patternProperties.keySet())) {
             throw new SchemaException(b.pointer, "patternProperties", "cannot be merged with the patternProperties of "
-                    + (a.pointer.isEmpty() ? "#" : "#" + a.pointer) + " (allOf, $ref or siblings)");
+                    + SchemaIndex.display(a.pointer) + " (allOf, $ref or siblings)");
         }
         m.properties = new LinkedHashMap<>();
         Set<String> names = new LinkedHashSet<>(a.properties.keySet());
@@ -1602,7 +1618,8 @@ final class SchemaCompiler {
         }
         String part = s.parts().get(0);
         boolean negated = part.startsWith("!");
-        List<String> tokens = SchemaIndex.tokens(bare(part));
+        String document = SchemaIndex.document(bare(part));
+        List<String> tokens = SchemaIndex.tokens(SchemaIndex.pointer(bare(part)));
         List<String> words = new ArrayList<>();
         for (int i = 0; i < tokens.size(); i++) {
             String t = tokens.get(i);
@@ -1645,11 +1662,18 @@ final class SchemaCompiler {
                 default -> words.add(t);
             }
         }
-        String base = words.isEmpty() ? "root" : String.join("-", words);
+        String base = words.isEmpty() ? (document == null ? "root" : documentName(document)) : String.join("-", words);
         if (negated) {
             base = "not-" + base;
         }
         return sanitise(base);
+    }
+
+    /** A name for the root of another document: its last path segment without {@code .json} and {@code .schema}. */
+    private static String documentName(String document) {
+        String last = document.substring(Math.max(document.lastIndexOf('/'), document.lastIndexOf(':')) + 1);
+        last = last.replaceAll("(?i)\\.json$", "").replaceAll("(?i)\\.schema$", "");
+        return last.isEmpty() ? "document" : last;
     }
 
     static String sanitise(String s) {

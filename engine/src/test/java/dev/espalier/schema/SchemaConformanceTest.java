@@ -65,6 +65,12 @@ class SchemaConformanceTest {
 
     static final Path SUITE = resource("json-schema-test-suite/draft2020-12");
 
+    /** The suite's remote documents, served under {@link #REMOTES_BASE} as the suite's README describes. */
+    static final Path REMOTES = resource("json-schema-test-suite/remotes");
+    static final String REMOTES_BASE = "http://localhost:1234/";
+    /** Every file of {@code remotes/} under {@code http://localhost:1234/} and its path there: nothing is fetched. */
+    static final SchemaDocuments REMOTE_DOCUMENTS = remoteDocuments();
+
     /** The file of the suite whose format expectations are annotation-only (see class comment). */
     static final String ANNOTATION_ONLY_FORMATS = "format.json";
 
@@ -298,7 +304,8 @@ class SchemaConformanceTest {
     }
 
     private static SchemaResult compileBounded(JsonNode schema, SchemaOptions options) {
-        Future<SchemaResult> f = compiler.submit(() -> JsonSchemas.compile(schema, options));
+        Future<SchemaResult> f = compiler.submit(() -> JsonSchemas.compile(schema, SchemaIndex.DEFAULT_BASE,
+                REMOTE_DOCUMENTS, options));
         try {
             return f.get(COMPILE_TIMEOUT_MS, TimeUnit.MILLISECONDS);
         } catch (ExecutionException e) {
@@ -441,6 +448,20 @@ class SchemaConformanceTest {
     }
 
     // ---------------------------------------------------------------------------------------------- files
+
+    private static SchemaDocuments remoteDocuments() {
+        SchemaDocuments set = SchemaDocuments.empty();
+        ObjectMapper reader = JsonMapper.builder().enable(DeserializationFeature.USE_BIG_DECIMAL_FOR_FLOATS).build();
+        try (Stream<Path> s = Files.walk(REMOTES)) {
+            for (Path p : s.filter(p -> p.toString().endsWith(".json")).sorted().toList()) {
+                String rel = REMOTES.relativize(p).toString().replace('\\', '/');
+                set = set.with(java.net.URI.create(REMOTES_BASE + rel), reader.readTree(p.toFile()));
+            }
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return set;
+    }
 
     static List<Path> suiteFiles() throws IOException {
         try (Stream<Path> s = Files.walk(SUITE)) {

@@ -36,6 +36,10 @@ final class ConstraintOptions {
     @Option(names = "--lenient", description = "With --schema: relax what cannot be enforced exactly, listing it on stderr.")
     boolean lenient;
 
+    @Option(names = "--schema-document", paramLabel = "URI=FILE", description = "With --schema: "
+            + SchemaFiles.DOCUMENT_HELP)
+    java.util.List<String> documents = new java.util.ArrayList<>();
+
     @Option(names = "--state-limit", paramLabel = "N", defaultValue = "" + MaskSettings.DEFAULT_STATE_LIMIT,
             description = "Most states an automaton may have. Default: ${DEFAULT-VALUE}.")
     int stateLimit;
@@ -50,8 +54,8 @@ final class ConstraintOptions {
 
     Constraint compile(Vocabulary vocabulary, java.io.PrintWriter err) {
         if (source.grammar != null) {
-            if (pretty || anyOrder || lenient) {
-                throw new UserInputException("--pretty, --any-order and --lenient apply to --schema only");
+            if (pretty || anyOrder || lenient || !documents.isEmpty()) {
+                throw new UserInputException("--pretty, --any-order, --lenient and --schema-document apply to --schema only");
             }
             return Constraint.grammar(GrammarFiles.load(source.grammar, start, err), vocabulary, settings());
         }
@@ -59,11 +63,11 @@ final class ConstraintOptions {
             throw new UserInputException("--start applies to --grammar only");
         }
         if (source.schema != null) {
-            return Constraint.grammar(SchemaFiles.load(source.schema, SchemaFiles.options(pretty, anyOrder, lenient), err)
-                    .grammar(), vocabulary, settings());
+            return Constraint.grammar(SchemaFiles.load(source.schema, SchemaFiles.options(pretty, anyOrder, lenient),
+                    documents, err).grammar(), vocabulary, settings());
         }
-        if (pretty || anyOrder || lenient) {
-            throw new UserInputException("--pretty, --any-order and --lenient apply to --schema only");
+        if (pretty || anyOrder || lenient || !documents.isEmpty()) {
+            throw new UserInputException("--pretty, --any-order, --lenient and --schema-document apply to --schema only");
         }
         return Constraint.regex(source.regex, vocabulary, settings());
     }

@@ -8,12 +8,16 @@ import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
 
 import java.io.PrintWriter;
+import java.util.ArrayList;
+import java.util.List;
 import java.util.concurrent.Callable;
 
 /** {@code espalier schema}: the ABNF grammar a JSON Schema compiles to. */
 @Command(name = "schema", mixinStandardHelpOptions = true,
         description = {"Compile a JSON Schema (draft 2020-12) and print the ABNF grammar it becomes: the JSON texts "
                 + "the schema accepts, in the chosen layout. Keep it, edit it, use it with --grammar.",
+            "References reach the files beside FILE (relative paths) and the documents given with --schema-document; "
+                + "nothing is fetched.",
             "Relaxations (with --lenient) and warnings go to stderr as FILE: POINTER: KEYWORD: KIND: MESSAGE. "
                 + "A keyword that cannot be enforced exactly is an error (exit 2) unless --lenient is given."})
 final class SchemaCommand implements Callable<Integer> {
@@ -33,10 +37,14 @@ final class SchemaCommand implements Callable<Integer> {
     @Option(names = "--lenient", description = "Relax what cannot be enforced exactly, listing each relaxation on stderr.")
     boolean lenient;
 
+    @Option(names = "--schema-document", paramLabel = "URI=FILE", description = SchemaFiles.DOCUMENT_HELP)
+    List<String> documents = new ArrayList<>();
+
     @Override
     public Integer call() {
         PrintWriter out = spec.commandLine().getOut();
-        SchemaResult r = SchemaFiles.load(file, SchemaFiles.options(pretty, anyOrder, lenient), spec.commandLine().getErr());
+        SchemaResult r = SchemaFiles.load(file, SchemaFiles.options(pretty, anyOrder, lenient), documents,
+                spec.commandLine().getErr());
         out.print(AbnfPrinter.print(r.grammar()));
         out.flush();
         return 0;

@@ -132,6 +132,93 @@ class SchemaCommandsTest {
         assertTrue(sample.err().contains("malformed JSON"), sample.err());
     }
 
+    /** A work order in one file, its tree and site in two files under common/, one more by URI. */
+    private static Path workOrderFiles(Path dir) throws IOException {
+        Files.createDirectories(dir.resolve("common"));
+        Files.writeString(dir.resolve("common/tree.schema.json"),
+                "{\"$defs\": {\"treeId\": {\"type\": \"string\", \"pattern\": \"^T-[0-9]{3}$\"}}}");
+        Files.writeString(dir.resolve("common/site.schema.json"), "{\"type\": \"object\", \"properties\": {"
+                + "\"block\": {\"enum\": [\"A\", \"B\"]}, \"row\": {\"type\": \"integer\", \"minimum\": 1, \"maximum\": 9}},"
+                + " \"required\": [\"block\", \"row\"], \"additionalProperties\": false}");
+        Files.writeString(dir.resolve("crew.json"), "{\"enum\": [\"north\", \"south\"]}");
+        Path f = dir.resolve("work-order.schema.json");
+        Files.writeString(f, "{\"type\": \"object\", \"properties\": {"
+                + "\"tree\": {\"$ref\": \"common/tree.schema.json#/$defs/treeId\"},"
+                + " \"site\": {\"$ref\": \"common/site.schema.json\"},"
+                + " \"crew\": {\"$ref\": \"https://orchard.example/crew.json\"}},"
+                + " \"required\": [\"tree\", \"site\", \"crew\"], \"additionalProperties\": false}");
+        return f;
+    }
+
+    @Test
+    void filesBesideTheSchemaAndDocumentsByUri(@TempDir Path dir) throws IOException {
+        Path f = workOrderFiles(dir);
+        String doc = "--schema-document=https://orchard.example/crew.json=" + dir.resolve("crew.json");
+        Run r = run("schema", f.toString(), doc);
+        assertEquals(0, r.code(), r.err());
+        assertTrue(r.err().isEmpty(), r.err());
+        Path abnf = dir.resolve("work-order.abnf");
+        Files.writeString(abnf, r.out(), StandardCharsets.UTF_8);
+        Path samples = dir.resolve("samples");
+        Files.createDirectories(samples);
+        String order = "{\"tree\":\"T-042\",\"site\":{\"block\":\"B\",\"row\":3},\"crew\":\"north\"}";
+        Files.writeString(samples.resolve("order.accept.json"), order + "\n");
+        Files.writeString(samples.resolve("tree.reject.json"), order.replace("T-042", "T-42") + "\n");
+        Files.writeString(samples.resolve("row.reject.json"), order.replace("\"row\":3", "\"row\":10") + "\n");
+        Files.writeString(samples.resolve("crew.reject.json"), order.replace("north", "east") + "\n");
+        Run test = run("test", abnf.toString(), samples.toString());
+        assertEquals(0, test.code(), test.out() + test.err());
+        assertTrue(test.out().contains("4 passed, 0 failed"), test.out());
+        // the same files under --schema, from another working directory's point of view (absolute path)
+        Run sample = run("sample", "--schema", f.toAbsolutePath().toString(), doc, "-n", "3", "--seed", "5");
+        assertEquals(0, sample.code(), sample.err());
+        for (String line : sample.out().lines().toList()) {
+            JsonNode o = STRICT.readTree(STRICT.readTree(line).textValue());
+            assertTrue(o.get("tree").textValue().matches("T-[0-9]{3}"), line);
+            assertTrue(o.get("crew").textValue().matches("north|south"), line);
+        }
+        // without the document: an error saying how to supply it
+        Run missing = run("schema", f.toString());
+        assertEquals(2, missing.code());
+        assertTrue(missing.err().contains(f + ": #/properties/crew: $ref: error: remote reference "
+                + "https://orchard.example/crew.json is not supplied"), missing.err());
+        assertTrue(missing.err().contains("--schema-document https://orchard.example/crew.json=FILE"), missing.err());
+        Run grammar = run("sample", "--grammar", abnf.toString(), doc);
+        assertEquals(2, grammar.code());
+        assertTrue(grammar.err().contains("apply to --schema only"), grammar.err());
+    }
+
+    @Test
+    void problemsInOtherDocumentsNameThem(@TempDir Path dir) throws IOException {
+        Path f = workOrderFiles(dir);
+        String doc = "--schema-document=https://orchard.example/crew.json=" + dir.resolve("crew.json");
+        Path site = dir.resolve("common/site.schema.json");
+        Files.writeString(site, "{\"type\": \"object\",\n \"properties\": {\"row\": {\"type\": \"integer\", \"spacing\": 3}}}");
+        String siteUri = "file:" + site.toAbsolutePath().toUri().getRawPath();
+        Run warned = run("schema", f.toString(), doc);
+        assertEquals(0, warned.code(), warned.err());
+        assertTrue(warned.err().contains(f + ": " + siteUri + "#/properties/row: spacing: warning: "), warned.err());
+        Files.writeString(site, "{\"type\": \"object\",\n \"properties\": {\"row\": {\"type\": \"integer\",}}}");
+        Run broken = run("schema", f.toString(), doc);
+        assertEquals(2, broken.code());
+        assertTrue(broken.err().contains(f + ": #/properties/site: $ref: error: reference common/site.schema.json: "
+                + site.toAbsolutePath() + ": malformed JSON at line 2"), broken.err());
+        assertFalse(broken.err().contains("Exception"), broken.err());
+        Files.delete(site);
+        Run gone = run("schema", f.toString(), doc);
+        assertEquals(2, gone.code());
+        assertTrue(gone.err().contains(f + ": #/properties/site: $ref: error: reference common/site.schema.json: no such file "),
+                gone.err());
+        Files.writeString(dir.resolve("crew.json"), "{\"enum\": [\"north\",]}");
+        Run badDocument = run("schema", f.toString(), doc);
+        assertEquals(2, badDocument.code());
+        assertTrue(badDocument.err().contains(dir.resolve("crew.json") + ": #: error: malformed JSON at line 1"),
+                badDocument.err());
+        Run badSpec = run("schema", f.toString(), "--schema-document", "crew.json=" + dir.resolve("crew.json"));
+        assertEquals(2, badSpec.code());
+        assertTrue(badSpec.err().contains("is not an absolute URI"), badSpec.err());
+    }
+
     @Test
     void sampleOutputsAreValidRecords() throws IOException {
         Run s = run("sample", "--schema", ROOTSTOCK, "-n", "8", "--seed", "3");
