@@ -128,6 +128,68 @@ final class SchemaCompiler {
         this.options = options;
         this.pretty = options.spacing() == SchemaOptions.Spacing.PRETTY;
         this.writeStateRules = writeStateRules;
+        this.validationAsserts = readMetaSchema();
+    }
+
+    // ================================================================== dialect
+
+    /** Meta-schemas whose vocabularies are the standard ones (draft 2020-12 read, with draft-07 forms). */
+    private static final java.util.regex.Pattern STANDARD_DIALECTS = java.util.regex.Pattern.compile(
+            "https?://json-schema\\.org/(draft/(2020-12|2019-09)/schema|draft-0[467]/schema)#?");
+    /** The vocabularies of draft 2020-12 (section 8.1.2 of its core and of its validation specification; from memory). */
+    private static final String VOCABULARY = "https://json-schema.org/draft/2020-12/vocab/";
+    private static final Set<String> KNOWN_VOCABULARIES = Set.of(VOCABULARY + "core", VOCABULARY + "applicator",
+            VOCABULARY + "unevaluated", VOCABULARY + "validation", VOCABULARY + "meta-data",
+            VOCABULARY + "format-annotation", VOCABULARY + "format-assertion", VOCABULARY + "content");
+    /** The keywords of the validation vocabulary. */
+    private static final Set<String> VALIDATION_KEYWORDS = Set.of("type", "enum", "const", "multipleOf", "maximum",
+            "exclusiveMaximum", "minimum", "exclusiveMinimum", "maxLength", "minLength", "pattern", "maxItems",
+            "minItems", "uniqueItems", "maxContains", "minContains", "maxProperties", "minProperties", "required",
+            "dependentRequired");
+
+    /** Whether the keywords of the validation vocabulary assert (the root's meta-schema may leave them out). */
+    private final boolean validationAsserts;
+
+    /**
+     * Reads the root's {@code $schema}: a standard dialect, or a meta-schema of the document set
+     * whose {@code $vocabulary} says which vocabularies are in use. A required vocabulary that is not
+     * known is refused (its keywords cannot be enforced); without the validation vocabulary, its
+     * keywords are annotations. A meta-schema that is neither is read as draft 2020-12, with a warning.
+     *
+     * @return whether the validation vocabulary is in use
+     */
+    private boolean readMetaSchema() {
+        JsonNode root = index.node("");
+        JsonNode dialect = root != null && root.isObject() ? root.get("$schema") : null;
+        if (dialect == null || !dialect.isTextual() || STANDARD_DIALECTS.matcher(dialect.textValue()).matches()) {
+            return true;
+        }
+        java.util.Optional<JsonNode> meta;
+        try {
+            java.net.URI uri = new java.net.URI(dialect.textValue());
+            meta = uri.isAbsolute() ? index.documents().get(uri) : java.util.Optional.empty();
+        } catch (java.net.URISyntaxException e) {
+            throw malformed("", "$schema", "malformed URI " + dialect.textValue());
+        }
+        JsonNode vocabularies = meta.map(m -> m.get("$vocabulary")).orElse(null);
+        if (vocabularies == null || !vocabularies.isObject()) {
+            warnings.add(new SchemaNote("", "$schema", "meta-schema " + dialect.textValue()
+                    + " is not known: the schema is read as draft 2020-12"));
+            return true;
+        }
+        for (Iterator<Map.Entry<String, JsonNode>> it = vocabularies.fields(); it.hasNext(); ) {
+            Map.Entry<String, JsonNode> v = it.next();
+            if (!KNOWN_VOCABULARIES.contains(v.getKey()) && v.getValue().asBoolean(false)) {
+                refuse("", "$schema", "meta-schema " + dialect.textValue() + " requires the vocabulary "
+                        + v.getKey() + ", whose keywords are not known");
+            }
+        }
+        if (vocabularies.has(VOCABULARY + "validation")) {
+            return true;
+        }
+        warnings.add(new SchemaNote("", "$schema", "meta-schema " + dialect.textValue()
+                + " has no validation vocabulary: type, minimum and the other validation keywords are annotations"));
+        return false;
     }
 
     // ================================================================== entry
@@ -671,6 +733,9 @@ final class SchemaCompiler {
             String k = e.getKey();
             JsonNode v = e.getValue();
             String at = ptr + "/" + SchemaIndex.escape(k);
+            if (!validationAsserts && VALIDATION_KEYWORDS.contains(k)) {
+                continue; // an annotation under the root's meta-schema
+            }
             switch (k) {
                 case "type" -> {
                     int bits = 0;
@@ -775,8 +840,8 @@ final class SchemaCompiler {
                     f.contains = at;
                     JsonNode lo = n.get("minContains");
                     JsonNode hi = n.get("maxContains");
-                    f.minContains = lo == null ? 1 : nonNegative(ptr, "minContains", lo);
-                    f.maxContains = hi == null ? -1 : nonNegative(ptr, "maxContains", hi);
+                    f.minContains = lo == null || !validationAsserts ? 1 : nonNegative(ptr, "minContains", lo);
+                    f.maxContains = hi == null || !validationAsserts ? -1 : nonNegative(ptr, "maxContains", hi);
                     if (f.minContains == 0 && f.maxContains < 0) {
                         f.contains = null; // always satisfied
                     }

@@ -189,6 +189,11 @@ final class SchemaIndex {
         return loadedBases.getOrDefault(doc, rootBase);
     }
 
+    /** The documents that references may reach (also where a meta-schema is looked up). */
+    SchemaDocuments documents() {
+        return documents;
+    }
+
     /** How many documents are indexed, the root among them. */
     int documentCount() {
         return 1 + loaded.size();

@@ -452,4 +452,55 @@ class SchemaDocumentsTest {
         assertThrows(IllegalArgumentException.class, () -> empty.with(URI.create("https://orchard.test/a.json#/x"), json("{}")));
         assertThrows(IllegalArgumentException.class, () -> empty.with(URI.create("https://orchard.test/a.json"), json("3")));
     }
+
+    /**
+     * A root whose {@code $schema} names a meta-schema of the set follows its {@code $vocabulary}
+     * (draft 2020-12 core specification, section 8.1.2; from memory): without the validation
+     * vocabulary, validation keywords are annotations; a required vocabulary that is not known is
+     * refused; a meta-schema that is neither standard nor supplied is read as draft 2020-12, with a
+     * warning.
+     */
+    @Test
+    void theRootsMetaSchemaChoosesTheVocabularies() {
+        URI noValidation = URI.create("https://orchard.test/meta/no-validation.json");
+        URI custom = URI.create("https://orchard.test/meta/graft-vocabulary.json");
+        SchemaDocuments set = SchemaDocuments.empty()
+                .with(noValidation, json("""
+                        {"$schema": "https://json-schema.org/draft/2020-12/schema",
+                         "$vocabulary": {"https://json-schema.org/draft/2020-12/vocab/core": true,
+                                         "https://json-schema.org/draft/2020-12/vocab/applicator": true}}"""))
+                .with(custom, json("""
+                        {"$vocabulary": {"https://json-schema.org/draft/2020-12/vocab/core": true,
+                                         "https://json-schema.org/draft/2020-12/vocab/validation": true,
+                                         "https://orchard.test/vocab/graft": true}}"""));
+        String rows = "\"properties\": {\"row\": {\"type\": \"integer\", \"minimum\": 1}, \"graft\": false}";
+
+        SchemaResult annotations = JsonSchemas.compile(json("{\"$schema\": \"" + noValidation + "\", " + rows + "}"),
+                INSPECTION, set, SchemaOptions.defaults());
+        assertTrue(SchemaHarness.acceptsInstance(annotations, "{\"row\":0}"), "minimum is an annotation");
+        assertTrue(SchemaHarness.acceptsInstance(annotations, "{\"row\":\"seven\"}"), "type is an annotation");
+        assertFalse(SchemaHarness.acceptsInstance(annotations, "{\"graft\":1}"), "applicators still apply");
+        assertTrue(annotations.warnings().stream().anyMatch(w -> w.keyword().equals("$schema")), "said so");
+
+        SchemaResult standard = JsonSchemas.compile(json("{\"$schema\": \"https://json-schema.org/draft/2020-12/schema\", "
+                + rows + "}"), INSPECTION, set, SchemaOptions.defaults());
+        assertFalse(SchemaHarness.acceptsInstance(standard, "{\"row\":0}"));
+        assertTrue(SchemaHarness.acceptsInstance(standard, "{\"row\":3}"));
+        assertTrue(standard.warnings().isEmpty(), standard.warnings().toString());
+
+        JsonNode requiresGraft = json("{\"$schema\": \"" + custom + "\", " + rows + "}");
+        SchemaException e = assertThrows(SchemaException.class,
+                () -> JsonSchemas.compile(requiresGraft, INSPECTION, set, SchemaOptions.defaults()));
+        assertEquals("$schema", e.keyword());
+        assertTrue(e.getMessage().contains("https://orchard.test/vocab/graft"), e.getMessage());
+        SchemaResult relaxed = JsonSchemas.compile(requiresGraft, INSPECTION, set, SchemaOptions.defaults().withLenient(true));
+        assertEquals("$schema", relaxed.relaxations().get(0).keyword());
+        assertFalse(SchemaHarness.acceptsInstance(relaxed, "{\"row\":0}"), "validation in use");
+
+        SchemaResult unknown = JsonSchemas.compile(json("{\"$schema\": \"https://orchard.test/meta/elsewhere.json\", "
+                + rows + "}"), INSPECTION, set, SchemaOptions.defaults());
+        assertFalse(SchemaHarness.acceptsInstance(unknown, "{\"row\":0}"), "read as draft 2020-12");
+        assertTrue(unknown.warnings().stream().anyMatch(w -> w.keyword().equals("$schema")
+                && w.message().contains("not known")), unknown.warnings().toString());
+    }
 }
