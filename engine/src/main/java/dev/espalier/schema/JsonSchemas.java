@@ -163,6 +163,16 @@ public final class JsonSchemas {
         return compile(schema, abs.toUri(), documents, true, options);
     }
 
+    /**
+     * As {@link #compile(Path, SchemaDocuments, SchemaOptions)} for a schema text that stands for the
+     * file's content (an editor's buffer, saved or not): the file is not read, the files beside it
+     * are. Malformed text is a {@link SchemaException} at {@code ""}.
+     */
+    public static SchemaResult compile(String schemaJson, Path file, SchemaDocuments documents, SchemaOptions options) {
+        Path abs = file.toAbsolutePath().normalize();
+        return compile(parse(schemaJson), abs.toUri(), documents, true, options);
+    }
+
     private static SchemaResult compile(JsonNode schema, URI base, SchemaDocuments documents, boolean readFiles,
                                         SchemaOptions options) {
         Objects.requireNonNull(schema, "schema");

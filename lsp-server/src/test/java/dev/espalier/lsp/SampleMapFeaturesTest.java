@@ -190,6 +190,20 @@ class SampleMapFeaturesTest {
     }
 
     @Test
+    void schemaPreviewsReachTheFilesBesideTheSchema() throws Exception {
+        try (TestClient c = start()) {
+            Files.createDirectories(ws.resolve("common"));
+            Files.writeString(ws.resolve("common/row.json"), "{\"$defs\": {\"row\": {\"type\": \"integer\", \"minimum\": 1}}}");
+            Files.writeString(ws.resolve("rows.schema.json"), "{\"$ref\": \"common/row.json#/$defs/row\"}");
+            Files.writeString(ws.resolve(SampleMap.FILE_NAME),
+                    map("{\"files\": \"rows/*.json\", \"schema\": \"rows.schema.json\", \"vocabulary\": \"letters.ranks\"}"));
+            assertEquals(List.of(), SamplePreviewFeaturesTest.openAndCheck(c, uri("rows/a.json"), "12"));
+            List<Diagnostic> zero = SamplePreviewFeaturesTest.openAndCheck(c, uri("rows/b.json"), "0");
+            assertEquals("leaves-language", code(zero.get(0)), zero.toString()); // minimum 1, from the other file
+        }
+    }
+
+    @Test
     void whileThePreviewIsPreparedFeaturesSaySoAndDiagnosticsFollowWhenReady() throws Exception {
         java.util.concurrent.CountDownLatch hold = new java.util.concurrent.CountDownLatch(1);
         java.util.concurrent.ExecutorService threads = java.util.concurrent.Executors.newSingleThreadExecutor();

@@ -233,7 +233,8 @@ public final class PreviewCache {
         SchemaOptions o = SchemaOptions.defaults().withSpacing(s.pretty() ? SchemaOptions.Spacing.PRETTY
                 : SchemaOptions.Spacing.COMPACT);
         try {
-            return JsonSchemas.compile(s.text(), o).grammar();
+            // as the file's text, so that references reach the files beside it, as on the command line
+            return JsonSchemas.compile(s.text(), s.file(), dev.espalier.schema.SchemaDocuments.empty(), o).grammar();
         } catch (UnsupportedOperationException e) {
             throw new PreviewException("JSON Schema constraints are not available in this build");
         } catch (SchemaException e) {
