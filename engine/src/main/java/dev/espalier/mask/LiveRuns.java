@@ -188,7 +188,7 @@ final class LiveRuns implements VocabularyTrie.Coverage {
     /** The runs over ASCII bytes {@code low/high} (and multibyte characters) that live for {@code upTo} characters and then die. */
     record Whole(long low, long high, boolean multibyte, int upTo) {
 
-        /** The tokens of {@code trie} of at most {@code maxDepth} bytes that are these runs (null past the trie's bound on sets). */
+        /** The tokens of {@code trie} of at most {@code maxDepth} bytes that are these runs. */
         RunTokens tokens(VocabularyTrie trie, int maxDepth) {
             return trie.runTokens(low, high, multibyte, maxDepth);
         }

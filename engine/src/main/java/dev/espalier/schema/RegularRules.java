@@ -74,23 +74,19 @@ public final class RegularRules {
 
     /**
      * How the rules of a fragment are written out for their final use (the schema compiler escapes
-     * characters for JSON strings and splits literals for reading). {@code rule} must act on an
-     * expression as {@code leaf} on each of its leaves, with nested concatenations flattened one
-     * level and choices and repetitions rebuilt around their new parts.
+     * characters for JSON strings and splits literals for reading): a function that acts on an
+     * expression as on each of its leaves, with nested concatenations flattened one level and
+     * choices and repetitions rebuilt around their new parts, so that a step's label (a
+     * {@link Expr.Text} or a {@link Expr.Chars}) can be written on its own.
      */
-    interface Writer {
-        /** The written form of a step's label: a {@link Expr.Text} or a {@link Expr.Chars}. */
-        Expr leaf(Expr label);
-
-        /** The written form of a rule body. */
-        Expr rule(Expr body);
+    interface Writer extends java.util.function.UnaryOperator<Expr> {
     }
 
     /**
      * As {@link #ofMinimal(String, Automaton)} for an automaton given as arrays, with every helper
      * rule written by {@code writer} (the body is left as it is). Where each state becomes a rule, labels are written as the
      * equations are made, so thousands of state rules are not walked a second time; the rules are
-     * those of {@code writer.rule} over the rules of {@link #ofMinimal(String, Automaton)}.
+     * those of {@code writer} over the rules of {@link #ofMinimal(String, Automaton)}.
      */
     static RegularFragment ofMinimal(String prefix, UnitDfa minimal, Writer writer) {
         return of(prefix, CodePointDfa.of(minimal), SIZE_BUDGET, writer);
@@ -129,7 +125,7 @@ public final class RegularRules {
         }
         List<Rule> rules = new ArrayList<>(raw.rules().size());
         for (Rule r : raw.rules()) {
-            rules.add(Rule.of(r.name(), writer.rule(r.body())));
+            rules.add(Rule.of(r.name(), writer.apply(r.body())));
         }
         return new RegularFragment(raw.body(), rules);
     }
@@ -164,7 +160,7 @@ public final class RegularRules {
     }
 
     /**
-     * {@code writer.rule(stateEquation(dfa, q, names))}, built directly: each label written once per
+     * {@code writer.apply(stateEquation(dfa, q, names))}, built directly: each label written once per
      * set (the sets of a {@link CodePointDfa} are shared), concatenations flattened as they are made.
      */
     private static Expr writtenEquation(CodePointDfa dfa, int q, String[] names, Writer writer,
@@ -175,7 +171,7 @@ public final class RegularRules {
         int count = 0;
         List<Expr> items = new ArrayList<>(4);
         for (Map.Entry<Integer, CodePointSet> e : steps.entrySet()) {
-            Expr label = labels.computeIfAbsent(e.getValue(), set -> writer.leaf(leaf(set).expr()));
+            Expr label = labels.computeIfAbsent(e.getValue(), set -> writer.apply(leaf(set).expr()));
             if (e.getKey() == q) {
                 loop = label;
             } else {

@@ -2066,10 +2066,10 @@ final class SchemaCompiler {
 
     /** As {@link #encodedRules(String, Automaton)}; {@code minimal} when the automaton is known to be minimal. */
     private Expr encodedRules(String base, Automaton a, boolean minimal) {
-        String prefix = freshPrefix(base);
         if (minimal && writeStateRules && a.isDeterministic()) {
-            return writtenRules(RegularRules.ofMinimal(prefix, UnitDfa.of(a), writer));
+            return encodedRules(base, UnitDfa.of(a));
         }
+        String prefix = freshPrefix(base);
         RegularFragment frag = minimal ? RegularRules.ofMinimal(prefix, a) : RegularRules.of(prefix, a);
         for (Rule r : frag.rules()) {
             usedNames.add(r.key());
@@ -2094,18 +2094,8 @@ final class SchemaCompiler {
         return encode(frag.body());
     }
 
-    /** Writes the rules of a string language as {@link #encodeReadable} would, label by label. */
-    private final RegularRules.Writer writer = new RegularRules.Writer() {
-        @Override
-        public Expr leaf(Expr label) {
-            return encodeReadable(label);
-        }
-
-        @Override
-        public Expr rule(Expr body) {
-            return encodeReadable(body);
-        }
-    };
+    /** Writes the rules of a string language: {@link #encodeReadable} acts leaf by leaf. */
+    private final RegularRules.Writer writer = this::encodeReadable;
 
     /** A rule-name prefix that no rule name in use starts with. */
     private String freshPrefix(String base) {

@@ -174,7 +174,7 @@ class RunTokensTest {
     }
 
     @Test
-    void aTrieKeepsTheSetsMadeLast() {
+    void aTrieKeepsTheSetsAskedForLast() {
         VocabularyTrie trie = freshTrie(TestVocabularies.builtin("cl100k"));
         RunTokens first = trie.runTokens(1L, 0, false, 2);
         RunTokens[] made = new RunTokens[64];
@@ -184,7 +184,7 @@ class RunTokensTest {
             assertTrue(trie.runSetsKept() <= VocabularyTrie.RUN_SETS, "sets kept: " + trie.runSetsKept());
         }
         assertEquals(VocabularyTrie.RUN_SETS, trie.runSetsKept());
-        // the set made last is kept; the one made first was dropped and is made again, equal
+        // the set asked for last is kept; the one asked for first was dropped and is made again, equal
         assertSame(made[63], trie.runTokens(1L << 63, 0, false, 2));
         RunTokens again = trie.runTokens(1L, 0, false, 2);
         assertNotSame(first, again);
@@ -197,6 +197,21 @@ class RunTokensTest {
             assertArrayEquals(a, b, "tokens of up to " + c + " characters");
         }
         assertTrue(first.countUpTo(2) > 0, "the set has tokens");
+    }
+
+    @Test
+    void aSetAskedForAgainOutlivesOlderOnes() {
+        VocabularyTrie trie = freshTrie(TestVocabularies.builtin("cl100k"));
+        RunTokens kept = trie.runTokens(1L, 0, false, 2);
+        RunTokens second = trie.runTokens(2L, 0, false, 2);
+        for (int b = 2; b < VocabularyTrie.RUN_SETS; b++) {
+            trie.runTokens(1L << b, 0, false, 2);
+        }
+        assertSame(kept, trie.runTokens(1L, 0, false, 2), "asked for again");
+        trie.runTokens(0, 1L, false, 2); // one set more than the trie keeps
+        assertEquals(VocabularyTrie.RUN_SETS, trie.runSetsKept());
+        assertSame(kept, trie.runTokens(1L, 0, false, 2), "kept: asked for recently");
+        assertNotSame(second, trie.runTokens(2L, 0, false, 2), "dropped: asked for least recently");
     }
 
     @Test
